@@ -1,4 +1,5 @@
 import { defineConfig } from 'vitest/config';
+import { ClosingLineReporter } from './test/support/closing-line-reporter.js';
 
 export default defineConfig({
   test: {
@@ -6,6 +7,6 @@ export default defineConfig({
     testTimeout: 120_000,
     hookTimeout: 120_000,
     pool: 'forks',
-    reporters: ['default'],
+    reporters: ['default', new ClosingLineReporter()],
   },
 });

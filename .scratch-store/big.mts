@@ -1,0 +1,18 @@
+import { generateDemo, demoCsv, DEMO_COLUMNS } from '../demo/index.js';
+import { importFile } from '../src/services/index.js';
+import { openStore } from '../src/store/index.js';
+import { rmSync } from 'node:fs';
+const n = Number(process.argv[2] ?? 100000);
+const t0 = performance.now();
+const demo = generateDemo({ answers: n, seed: 7 });
+const csv = demoCsv(demo.rows);
+const bytes = typeof csv === 'string' ? new TextEncoder().encode(csv) : csv;
+console.log('generated', ((performance.now() - t0) / 1000).toFixed(1), 's', bytes.length, 'bytes');
+rmSync('/tmp/tbig', { recursive: true, force: true });
+const store = openStore('/tmp/tbig');
+const phases: Record<string, number> = {};
+let last = performance.now(); let ph = '';
+const t1 = performance.now();
+const s = await importFile(store, { study: 'Big', bytes, fileName: 'big.csv', mapping: DEMO_COLUMNS, onProgress: (p) => { if (p.phase !== ph) { const now = performance.now(); if (ph) phases[ph] = (now - last) / 1000; last = now; ph = p.phase; } } });
+console.log('import', ((performance.now() - t1) / 1000).toFixed(1), 's', s.documents, phases);
+store.close();

@@ -1,0 +1,71 @@
+// `npm run bench -- --only sampler [--quick] [--json] [--full]` (issue #5).
+//
+// On one seeded synthetic corpus (bench/sampler/corpus.ts; 50,000 link groups ≈ 1.15 M tokens,
+// --quick 10,000 groups) and for K ∈ {20, 100, 500}, measured side by side in one run from the
+// same random start:
+//   floor      tokens/s of the loop that only moves counts (bench/sampler/floor.ts)
+//   reference  tokens/s of the plain O(K) sampler over `qualitySweeps` sweeps
+//   fast1      tokens/s of the fast exact sampler (SparseLDA buckets) on one thread
+//   fastAll    tokens/s of the AD-LDA parallel sampler on every core
+//   time to quality: seconds until the joint log-likelihood per token first reaches the value
+//              the reference reaches at its last sweep (sweep 200; --quick: sweep 25, fewer
+//              sweeps so the run stays under two minutes). Likelihood evaluation is not timed.
+//   bytesPerToken: bytes of fast-sampler state that grow with the tokens (z + word lists),
+//              divided by tokens; dense n_kw (vocabulary × K) is reported apart as tableBytes.
+// JSON (last stdout line with --json): one object, every figure an array indexed like `k`.
+import { availableParallelism } from 'node:os';
+import type { BenchOptions } from './run.js';
+import { benchCorpus } from './sampler/corpus.js';
+import { measureK, type KFigures } from './sampler/measure.js';
+import { runFullCase } from './sampler/full-case.js';
+
+export async function runBench(options: BenchOptions): Promise<Record<string, unknown>> {
+  const { log } = options;
+  const groups = options.quick ? 10_000 : 50_000;
+  const qualitySweeps = options.quick ? 25 : 200;
+  const threads = availableParallelism();
+  const built = benchCorpus(groups, 20260501);
+  const N = built.corpus.words.length;
+  log(`corpus: ${built.corpus.numGroups} link groups, ${built.corpus.docOffsets.length - 1} documents, ${N} tokens, 4 languages; threads for fastAll: ${threads}`);
+  log(`time to quality: log-likelihood the reference reaches at sweep ${qualitySweeps}${options.quick ? ' (--quick: fewer sweeps than the full run\'s 200)' : ''}`);
+  const ks = [20, 100, 500];
+  const rows: KFigures[] = [];
+  for (const K of ks) {
+    const row = await measureK(built, K, { qualitySweeps, floorSweeps: options.quick ? 3 : 10, threads, log });
+    rows.push(row);
+  }
+  const pick = <T extends keyof KFigures>(key: T) => rows.map((r) => r[key]);
+  const result: Record<string, unknown> = {
+    k: ks,
+    floor: pick('floor'),
+    reference: pick('reference'),
+    fast1: pick('fast1'),
+    fastAll: pick('fastAll'),
+    fastOverReference: rows.map((r) => r.fast1 / r.reference),
+    fastOverFloor: rows.map((r) => r.fast1 / r.floor),
+    allOverOne: rows.map((r) => r.fastAll / r.fast1),
+    timeToQualityRatio: rows.map((r) => r.ttqFast1 / r.ttqReference),
+    timeToQualityRatioAll: rows.map((r) => r.ttqFastAll / r.ttqReference),
+    timeToQualitySeconds: { reference: pick('ttqReference'), fast1: pick('ttqFast1'), fastAll: pick('ttqFastAll') },
+    sweepsToQuality: { reference: qualitySweeps, fast1: pick('sweepsFast1'), fastAll: pick('sweepsFastAll') },
+    bytesPerToken: pick('bytesPerToken'),
+    tableBytes: pick('tableBytes'),
+    tokens: N,
+    groups: built.corpus.numGroups,
+    threads,
+    qualitySweeps,
+    peakRssMB: process.resourceUsage().maxRSS / 1024,
+  };
+  log('');
+  log('K      floor M/s  ref M/s  fast1 M/s  fastAll M/s  fast/ref  fast/floor  all/one  ttq fast/ref  bytes/token');
+  rows.forEach((r, i) => {
+    log(
+      `${String(r.K).padEnd(6)} ${(r.floor / 1e6).toFixed(2).padStart(9)}  ${(r.reference / 1e6).toFixed(2).padStart(7)}  ${(r.fast1 / 1e6).toFixed(2).padStart(9)}  ${(r.fastAll / 1e6).toFixed(2).padStart(11)}  ` +
+        `${(result.fastOverReference as number[])[i].toFixed(2).padStart(8)}  ${(result.fastOverFloor as number[])[i].toFixed(2).padStart(10)}  ${(result.allOverOne as number[])[i].toFixed(2).padStart(7)}  ` +
+        `${(result.timeToQualityRatio as number[])[i].toFixed(3).padStart(12)}  ${r.bytesPerToken.toFixed(2).padStart(11)}`,
+    );
+  });
+  log(`peak RSS: ${(result.peakRssMB as number).toFixed(0)} MB`);
+  if (options.full) result.full = await runFullCase(log);
+  return result;
+}

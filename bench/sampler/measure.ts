@@ -1,0 +1,139 @@
+// One K of the sampler benchmark: floor, reference, fast (1 thread) and parallel (all cores) from
+// the same random start, with the log-likelihood trace for time to quality (see bench/sampler.ts).
+import { performance } from 'node:perf_hooks';
+import { countsFromAssignments, createReferenceSampler, randomAssignments } from '../../src/model/reference-sampler.js';
+import { logJointLikelihood } from '../../src/model/log-likelihood.js';
+import { createFastSampler } from '../../src/model/fast-sampler.js';
+import { createParallelSampler } from '../../src/model/parallel/index.js';
+import { Xoshiro128 } from '../../src/model/rng.js';
+import type { Priors, Sampler, SamplerFactory } from '../../src/model/types.js';
+import type { BenchCorpus } from './corpus.js';
+import { floorSweep } from './floor.js';
+
+export interface KFigures {
+  K: number;
+  floor: number;
+  reference: number;
+  fast1: number;
+  fastAll: number;
+  ttqReference: number;
+  ttqFast1: number;
+  ttqFastAll: number;
+  sweepsFast1: number;
+  sweepsFastAll: number;
+  bytesPerToken: number;
+  tableBytes: number;
+}
+
+export interface MeasureOptions {
+  qualitySweeps: number;
+  floorSweeps: number;
+  threads: number;
+  log: (line: string) => void;
+}
+
+/** α per pattern around 5/K (short documents favour a small total, common practice), β = 0.01. */
+function benchPriors(b: BenchCorpus, K: number): Priors {
+  const rng = Xoshiro128.fromSeed(K, 7);
+  const alpha = new Float64Array(b.patterns * K);
+  for (let i = 0; i < alpha.length; i++) alpha[i] = (5 / K) * (0.5 + rng.nextDouble());
+  return { K, groupPattern: b.groupPattern, alpha, beta: new Float64Array(b.corpus.languages.length).fill(0.01) };
+}
+
+interface Trace {
+  tokensPerSecond: number;
+  /** Sampling seconds until the target was first reached (Infinity if never). */
+  secondsToTarget: number;
+  sweepsToTarget: number;
+  lastLogLik: number;
+  /** Log-likelihood per token and cumulative sampling seconds after each sweep. */
+  logLiks: number[];
+  times: number[];
+}
+
+/** Runs `sweeps` sweeps (and more, up to 2×, until `target` is reached); likelihood is not timed. */
+function trace(b: BenchCorpus, sampler: Sampler, priors: Priors, sweeps: number, target: number, seed: number): Trace {
+  const N = b.corpus.words.length;
+  const rng = Xoshiro128.fromSeed(seed);
+  let seconds = 0;
+  let secondsToTarget = Infinity;
+  let sweepsToTarget = -1;
+  let ll = -Infinity;
+  let secondsAtSweeps = 0;
+  const logLiks: number[] = [];
+  const times: number[] = [];
+  for (let s = 1; s <= 2 * sweeps; s++) {
+    const t = performance.now();
+    sampler.sweep(rng);
+    seconds += (performance.now() - t) / 1000;
+    if (s === sweeps) secondsAtSweeps = seconds;
+    ll = logJointLikelihood(b.corpus, sampler.z, priors.K, priors, { nkw: sampler.wordTopicCounts(), nk: sampler.topicTotals() }) / N;
+    logLiks.push(ll);
+    times.push(seconds);
+    if (secondsToTarget === Infinity && ll >= target) {
+      secondsToTarget = seconds;
+      sweepsToTarget = s;
+    }
+    if (s >= sweeps && secondsToTarget !== Infinity) break;
+  }
+  return { tokensPerSecond: (N * sweeps) / secondsAtSweeps, secondsToTarget, sweepsToTarget, lastLogLik: ll, logLiks, times };
+}
+
+export async function measureK(b: BenchCorpus, K: number, o: MeasureOptions): Promise<KFigures> {
+  const { corpus } = b;
+  const N = corpus.words.length;
+  const priors = benchPriors(b, K);
+  const z0 = randomAssignments(corpus, K, Xoshiro128.fromSeed(K, 1));
+
+  // Floor.
+  const zf = z0.slice();
+  const { nkw, nk } = countsFromAssignments(corpus, zf, K);
+  const ngk = new Int32Array(K);
+  floorSweep(corpus, zf, K, nkw, nk, ngk); // warm-up
+  let t = performance.now();
+  for (let s = 0; s < o.floorSweeps; s++) floorSweep(corpus, zf, K, nkw, nk, ngk);
+  const floor = (N * o.floorSweeps) / ((performance.now() - t) / 1000);
+  o.log(`K=${K} floor: ${(floor / 1e6).toFixed(2)} M tokens/s`);
+
+  // Reference: its likelihood at the last sweep is the quality target.
+  const ref = createReferenceSampler(corpus, z0.slice(), priors);
+  const refTrace = trace(b, ref, priors, o.qualitySweeps, Infinity, 11);
+  const target = refTrace.lastLogLik;
+  // The same rule for every sampler: first sweep whose likelihood reaches the target.
+  const refFirst = refTrace.logLiks.findIndex((ll) => ll >= target);
+  const ttqReference = refTrace.times[refFirst];
+  o.log(`K=${K} reference: ${(refTrace.tokensPerSecond / 1e6).toFixed(2)} M tokens/s; log-lik/token at sweep ${o.qualitySweeps} = ${target.toFixed(4)}, first reached at sweep ${refFirst + 1} after ${ttqReference.toFixed(2)} s`);
+
+  const run = async (factory: SamplerFactory, label: string): Promise<Trace & { bytes: number; table: number }> => {
+    t = performance.now();
+    const sampler = factory(corpus, z0.slice(), priors) as Sampler & { perTokenStateBytes?: () => number };
+    const setup = (performance.now() - t) / 1000;
+    try {
+      const tr = trace(b, sampler, priors, o.qualitySweeps, target, 11);
+      o.log(
+        `K=${K} ${label}: ${(tr.tokensPerSecond / 1e6).toFixed(2)} M tokens/s; reached the target at sweep ${tr.sweepsToTarget} after ${tr.secondsToTarget.toFixed(2)} s (setup ${setup.toFixed(2)} s, not counted)`,
+      );
+      const bytes = sampler.perTokenStateBytes?.() ?? NaN;
+      return { ...tr, bytes, table: 0 };
+    } finally {
+      await sampler.dispose?.();
+    }
+  };
+  const fast = await run(createFastSampler, 'fast, 1 thread');
+  const parallel = await run(createParallelSampler(o.threads), `fast, ${o.threads} threads`);
+  const table = countsFromAssignments(corpus, z0, K).nkw.byteLength;
+  return {
+    K,
+    floor,
+    reference: refTrace.tokensPerSecond,
+    fast1: fast.tokensPerSecond,
+    fastAll: parallel.tokensPerSecond,
+    ttqReference,
+    ttqFast1: fast.secondsToTarget,
+    ttqFastAll: parallel.secondsToTarget,
+    sweepsFast1: fast.sweepsToTarget,
+    sweepsFastAll: parallel.sweepsToTarget,
+    bytesPerToken: fast.bytes / N,
+    tableBytes: table,
+  };
+}

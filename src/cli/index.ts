@@ -1,0 +1,2 @@
+// Public surface of the command line.
+export { runCli, buildProgram, describeInputError, EXIT_INPUT, type CliIo } from './program.js';

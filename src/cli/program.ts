@@ -1,0 +1,69 @@
+// The `themata` command line (DESIGN §9): same core calls as the workbench. `runCli` runs one
+// invocation in-process with its own output streams, so tests can drive it without a child
+// process; src/cli.ts connects it to the real process.
+import { Command, CommanderError } from 'commander';
+import { InputError } from '../text/types.js';
+import { registerAdminCommands } from './admin-commands.js';
+import { registerCheckCommands } from './check-commands.js';
+import { CliContext, type CliIo } from './context.js';
+import { registerRunCommands } from './run-commands.js';
+import { registerStudyCommands } from './study-commands.js';
+
+export type { CliIo } from './context.js';
+
+/** Exit codes: 0 done, 1 unexpected failure, 2 a problem with the input or the command line. */
+export const EXIT_INPUT = 2;
+
+export function describeInputError(e: InputError): string {
+  const lower = e.message.toLowerCase();
+  const where = [
+    e.file && !e.message.includes(e.file) && `file ${e.file}`,
+    e.row !== undefined && !lower.includes(`row ${e.row}`) && !lower.includes(`line ${e.row}`) && `row ${e.row}`,
+    e.column && !e.message.includes(e.column) && `column "${e.column}"`,
+  ].filter(Boolean);
+  return where.length ? `${e.message} (${where.join(', ')})` : e.message;
+}
+
+export function buildProgram(ctx: CliContext): Command {
+  const program = new Command()
+    .name('themata')
+    .description('Find themes in free-text answers written in several languages and compare them across groups.')
+    .option('--data <dir>', 'data folder (holds themata.sqlite)', process.env.THEMATA_DATA ?? './data')
+    .showHelpAfterError('(run with --help for usage)')
+    .exitOverride()
+    .configureOutput({ writeOut: (s) => ctx.io.stdout.write(s), writeErr: (s) => ctx.io.stderr.write(s) });
+  registerStudyCommands(program, ctx);
+  registerRunCommands(program, ctx);
+  registerCheckCommands(program, ctx);
+  registerAdminCommands(program, ctx);
+  for (const cmd of program.commands) {
+    cmd.exitOverride();
+    cmd.configureOutput({ writeOut: (s) => ctx.io.stdout.write(s), writeErr: (s) => ctx.io.stderr.write(s) });
+  }
+  return program;
+}
+
+/** Run one command line (arguments after the program name); resolves to the exit code. */
+export async function runCli(args: readonly string[], io: CliIo): Promise<number> {
+  let program: Command | undefined;
+  const ctx = new CliContext(io, () => program!.opts<{ data: string }>().data);
+  program = buildProgram(ctx);
+  try {
+    await program.parseAsync([...args], { from: 'user' });
+    return 0;
+  } catch (e) {
+    if (e instanceof CommanderError) {
+      if (e.code === 'commander.helpDisplayed' || e.code === 'commander.version' || e.code === 'commander.help') return 0;
+      return e.exitCode === 0 ? 0 : EXIT_INPUT;
+    }
+    if (e instanceof InputError) {
+      io.stderr.write(`themata: ${describeInputError(e)}\n`);
+      return EXIT_INPUT;
+    }
+    io.stderr.write(`themata: ${e instanceof Error ? e.message : String(e)}\n`);
+    if (process.env.THEMATA_DEBUG && e instanceof Error && e.stack) io.stderr.write(`${e.stack}\n`);
+    return 1;
+  } finally {
+    ctx.close();
+  }
+}

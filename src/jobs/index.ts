@@ -1,0 +1,4 @@
+// Public surface of the jobs layer: the persisted run queue and its worker threads.
+export { JobQueue, type JobEvent, type JobListener, type JobQueueOptions } from './queue.js';
+export { startTypeScriptWorker } from './worker-launch.js';
+export type { FitWorkerData, FromWorker, ToWorker } from './messages.js';

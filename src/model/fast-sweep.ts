@@ -1,0 +1,184 @@
+// The hot loop of the fast sampler: one pass over link groups g0 .. g1-1.
+//
+// Method: SparseLDA bucket decomposition (Yao, Mimno & McCallum, "Efficient methods for topic
+// model inference on streaming document collections", KDD 2009, eq. 2), extended to link groups
+// ("Polylingual Topic Models", EMNLP 2009) and a per-pattern α (DMR, UAI 2008). For a token of
+// group g (pattern p), language ℓ, word w, with c_k = 1/(n_k^ℓ + V_ℓ β_ℓ):
+//
+//   (n_gk + α_pk)(n_kw + β_ℓ) c_k =  β_ℓ α_pk c_k          s: smoothing, all K topics
+//                                  + β_ℓ n_gk c_k           r: group, topics with n_gk > 0
+//                                  + (n_gk + α_pk) n_kw c_k q: word, topics with n_kw > 0
+//
+// Sampling a bucket with probability proportional to its mass and then a topic inside it draws
+// exactly from the full conditional (same distribution as the reference sampler). s depends on
+// (p, ℓ), which are fixed within a document: it is computed once per document in O(K) (documents
+// are ≈20 tokens, so O(K/20) per token) and kept up to date incrementally while the document's
+// tokens move, which also bounds floating-point drift to one document. r is rebuilt per document
+// from the group's non-zero topics; n_gk is rebuilt from z when the sweep enters a group (docs are
+// short), so no G×K array exists. q is summed fresh per token over the word's non-zero topics.
+import type { Rng } from './types.js';
+import type { FastState } from './fast-state.js';
+
+/** Scratch arrays of length K, allocated once per sampler (never inside the loop). */
+export interface FastScratch {
+  ngk: Int32Array;
+  gList: Uint16Array;
+  gPos: Int32Array;
+  qCum: Float64Array;
+}
+
+export function createScratch(K: number): FastScratch {
+  return { ngk: new Int32Array(K), gList: new Uint16Array(K), gPos: new Int32Array(K), qCum: new Float64Array(K) };
+}
+
+/**
+ * Resamples every token of groups [g0, g1). When `log` is given, each token whose topic changed
+ * appends (word row, old << 16 | new) for the parallel merge; returns the log length used.
+ */
+export function sweepGroups(
+  st: FastState,
+  scratch: FastScratch,
+  z: Uint16Array,
+  groupPattern: Int32Array,
+  g0: number,
+  g1: number,
+  rng: Rng,
+  log: Int32Array | null,
+): number {
+  const { K, nkw, nk, inv, vb, wlStart, wlLen, wlTopics, alpha, beta } = st;
+  const { words, docOffsets, docLanguage, groupDocOffsets, wordBase } = st.corpus;
+  const { ngk, gList, gPos, qCum } = scratch;
+  let logPos = 0;
+  let gn = 0;
+  let s = 0;
+  let r = 0;
+  let q = 0;
+  let u = 0;
+  for (let g = g0; g < g1; g++) {
+    const d0 = groupDocOffsets[g];
+    const d1 = groupDocOffsets[g + 1];
+    const t0 = docOffsets[d0];
+    const t1 = docOffsets[d1];
+    if (t0 === t1) continue;
+    gn = 0;
+    for (let i = t0; i < t1; i++) {
+      const k = z[i];
+      if (ngk[k]++ === 0) {
+        gPos[k] = gn;
+        gList[gn++] = k;
+      }
+    }
+    const aOff = groupPattern[g] * K;
+    for (let d = d0; d < d1; d++) {
+      const l = docLanguage[d];
+      const b = beta[l];
+      const vbl = vb[l];
+      const lK = l * K;
+      const base = wordBase[l];
+      s = 0;
+      for (let k = 0; k < K; k++) s += alpha[aOff + k] * inv[lK + k];
+      s *= b;
+      r = 0;
+      for (let j = 0; j < gn; j++) {
+        const k = gList[j];
+        r += ngk[k] * inv[lK + k];
+      }
+      r *= b;
+      const i1 = docOffsets[d + 1];
+      for (let i = docOffsets[d]; i < i1; i++) {
+        const row = base + words[i];
+        const rowK = row * K;
+        const old = z[i];
+        // Remove token i from the counts, keeping s and r current.
+        let iv = inv[lK + old];
+        let a = alpha[aOff + old];
+        let c = ngk[old];
+        s -= b * a * iv;
+        r -= b * c * iv;
+        c--;
+        ngk[old] = c;
+        if (c === 0) {
+          const last = gList[--gn];
+          gList[gPos[old]] = last;
+          gPos[last] = gPos[old];
+        }
+        iv = 1 / (--nk[lK + old] + vbl);
+        inv[lK + old] = iv;
+        s += b * a * iv;
+        r += b * c * iv;
+        if (gn === 0) r = 0;
+        const ws = wlStart[row];
+        let wn = wlLen[row];
+        if (--nkw[rowK + old] === 0) {
+          const last = ws + wn - 1;
+          let j = ws;
+          while (wlTopics[j] !== old) j++;
+          wlTopics[j] = wlTopics[last];
+          wlLen[row] = --wn;
+        }
+        // Word bucket, summed fresh.
+        q = 0;
+        for (let j = 0; j < wn; j++) {
+          const k = wlTopics[ws + j];
+          q += (ngk[k] + alpha[aOff + k]) * inv[lK + k] * nkw[rowK + k];
+          qCum[j] = q;
+        }
+        u = rng.nextDouble() * (s + r + q);
+        let nw = -1;
+        if (u < q) {
+          let j = 0;
+          while (j < wn - 1 && qCum[j] <= u) j++;
+          nw = wlTopics[ws + j];
+        } else {
+          u -= q;
+          if (u < r) {
+            for (let j = 0; j < gn; j++) {
+              const k = gList[j];
+              u -= b * ngk[k] * inv[lK + k];
+              if (u < 0) {
+                nw = k;
+                break;
+              }
+            }
+            if (nw < 0 && gn > 0) nw = gList[gn - 1];
+          } else u -= r;
+          if (nw < 0) {
+            // Smoothing bucket: O(K), rarely reached (its mass is ∝ β).
+            nw = K - 1;
+            for (let k = 0; k < K; k++) {
+              u -= b * alpha[aOff + k] * inv[lK + k];
+              if (u < 0) {
+                nw = k;
+                break;
+              }
+            }
+          }
+        }
+        // Add token i back with topic nw.
+        iv = inv[lK + nw];
+        a = alpha[aOff + nw];
+        c = ngk[nw];
+        s -= b * a * iv;
+        r -= b * c * iv;
+        if (c === 0) {
+          gPos[nw] = gn;
+          gList[gn++] = nw;
+        }
+        c++;
+        ngk[nw] = c;
+        iv = 1 / (++nk[lK + nw] + vbl);
+        inv[lK + nw] = iv;
+        s += b * a * iv;
+        r += b * c * iv;
+        if (nkw[rowK + nw]++ === 0) wlTopics[ws + wlLen[row]++] = nw;
+        z[i] = nw;
+        if (log !== null && nw !== old) {
+          log[logPos++] = row;
+          log[logPos++] = (old << 16) | nw;
+        }
+      }
+    }
+    for (let j = 0; j < gn; j++) ngk[gList[j]] = 0;
+  }
+  return logPos;
+}

@@ -1,0 +1,331 @@
+// The fit driver: sweeps of a collapsed Gibbs sampler, hyperparameter optimization every few
+// sweeps, saved posterior samples after burn-in, progress and checkpoints (DESIGN §4). Pure:
+// the caller (a worker thread, the CLI, a test) decides where progress and checkpoints go.
+//
+// Schedule (common practice, as in Wallach, Mimno & McCallum, "Rethinking LDA: why priors
+// matter", NIPS 2009, §4): λ and β are re-estimated every `optimizeEvery` sweeps from sweep
+// `optimizeFrom` on (default: half the burn-in, so that saved samples come from a chain whose
+// priors have settled); samples are saved every `sampleEvery` sweeps after `burnIn`.
+import { accumulatePhi, groupMixtures, phiByLanguage } from './posterior-samples.js';
+import { betaHistogram, optimizeBeta } from './beta-optimizer.js';
+import { type Checkpoint, CHECKPOINT_VERSION } from './checkpoint.js';
+import { DEFAULT_PRIOR_VARIANCE, dmrHistograms, optimizeLambda, type PriorVariance } from './dmr.js';
+import { alphaFromLambda, type GroupFeatures, interceptOnlyFeatures } from './features.js';
+import { initialAssignments } from './initialize.js';
+import { logJointLikelihood } from './log-likelihood.js';
+import { createReferenceSampler, randomAssignments } from './reference-sampler.js';
+import { Xoshiro128 } from './rng.js';
+import type { Corpus, Priors, SamplerFactory } from './types.js';
+
+export interface FitSettings {
+  K: number;
+  sweeps: number;
+  burnIn: number;
+  seed: number;
+  /** Re-estimate λ and β every this many sweeps (0 = never). */
+  optimizeEvery: number;
+  /** First sweep after which optimization may run. */
+  optimizeFrom: number;
+  sampleEvery: number;
+  /** Keep at most this many whole θ samples (the most recent). */
+  keepThetaSamples: number;
+  /** …and at most this many Float32 cells in total across them (memory bound). */
+  maxThetaSampleCells: number;
+  /** Emit a checkpoint every this many sweeps (0 = only when stopping). */
+  checkpointEvery: number;
+  samplerFactory: SamplerFactory;
+  priorVariance: PriorVariance;
+  /** Initial symmetric α per topic (common practice: 0.1) and β (common practice: 0.01). */
+  initialAlpha: number;
+  initialBeta: number;
+  optimizeBeta: boolean;
+  optimizeLambda: boolean;
+  /** 'sequential' (warm start on multilingual link groups, then one sequential pass) or 'random'. */
+  initialization: 'sequential' | 'random';
+  /** Sweeps of the warm start on multilingual link groups (see initialize.ts). */
+  warmStartSweeps: number;
+}
+
+export const DEFAULT_FIT_SETTINGS: Omit<FitSettings, 'K'> = {
+  sweeps: 1000,
+  burnIn: 200,
+  seed: 1,
+  optimizeEvery: 10,
+  optimizeFrom: -1, // resolved to floor(burnIn / 2)
+  sampleEvery: 10,
+  keepThetaSamples: 20,
+  maxThetaSampleCells: 50_000_000,
+  checkpointEvery: 50,
+  samplerFactory: createReferenceSampler,
+  priorVariance: DEFAULT_PRIOR_VARIANCE,
+  initialAlpha: 0.1,
+  initialBeta: 0.01,
+  optimizeBeta: true,
+  optimizeLambda: true,
+  initialization: 'sequential',
+  warmStartSweeps: 50,
+};
+
+export interface SweepProgress {
+  sweep: number;
+  sweeps: number;
+  tokensPerSecond: number;
+  logLikelihoodPerToken: number;
+  /** Estimated seconds left. */
+  eta: number;
+}
+
+export interface FitHooks {
+  onSweep?(progress: SweepProgress): void;
+  onCheckpoint?(checkpoint: Checkpoint): void | Promise<void>;
+  shouldStop?(): boolean;
+  resumeFrom?: Checkpoint;
+}
+
+export interface FitResult {
+  K: number;
+  languages: readonly string[];
+  /** φ̂ per language, K×V_ℓ row-major: phi[ℓ][k·V_ℓ + w]; posterior mean over saved samples. */
+  phi: Float64Array[];
+  /** θ̂ per link group, G×K row-major; posterior mean over saved samples. */
+  theta: Float64Array;
+  /** The most recent saved θ samples (G×K each) and the sweeps they come from. */
+  thetaSamples: Float32Array[];
+  thetaSampleSweeps: number[];
+  /** λ, K×F row-major (F = features.numFeatures; feature 0 is the intercept). */
+  lambda: Float64Array;
+  featureNames: string[];
+  /** α per pattern (P×K) and the pattern of each group. */
+  alpha: Float64Array;
+  groupPattern: Int32Array;
+  beta: Float64Array;
+  /** Joint log-likelihood per token after each sweep. */
+  logLikelihoodTrace: Float64Array;
+  /** Final assignments and counts ((ΣV_ℓ)×K and L×K). */
+  z: Uint16Array;
+  wordTopicCounts: Int32Array;
+  topicTotals: Int32Array;
+  /** Final state, to continue the run later. */
+  checkpoint: Checkpoint;
+  diagnostics: {
+    sampler: string;
+    sweepsCompleted: number;
+    stopped: boolean;
+    samples: number;
+    tokens: number;
+    seconds: number;
+    tokensPerSecond: number;
+    optimizations: number;
+    finalLogLikelihoodPerToken: number;
+  };
+}
+
+function resolve(settings: Partial<FitSettings> & { K: number }): FitSettings {
+  const s = { ...DEFAULT_FIT_SETTINGS, ...settings };
+  if (s.optimizeFrom < 0) s.optimizeFrom = Math.floor(s.burnIn / 2);
+  if (!(Number.isInteger(s.K) && s.K >= 1 && s.K <= 65535)) throw new Error(`The number of themes must be a whole number from 1 to 65535 (got ${s.K}).`);
+  if (!(s.sweeps >= 1)) throw new Error(`Sweeps must be at least 1 (got ${s.sweeps}).`);
+  if (!(s.burnIn >= 0 && s.burnIn < s.sweeps)) throw new Error(`Burn-in (${s.burnIn}) must be below the number of sweeps (${s.sweeps}).`);
+  if (!(s.sampleEvery >= 1)) throw new Error('sampleEvery must be at least 1.');
+  return s;
+}
+
+/** Fits the polylingual DMR topic model by collapsed Gibbs sampling. */
+export async function fitModel(
+  corpus: Corpus,
+  features: GroupFeatures | null,
+  settings: Partial<FitSettings> & { K: number },
+  hooks: FitHooks = {},
+): Promise<FitResult> {
+  const s = resolve(settings);
+  const K = s.K;
+  const feats = features ?? interceptOnlyFeatures(corpus.numGroups);
+  const F = feats.numFeatures;
+  const G = corpus.numGroups;
+  const N = corpus.words.length;
+  const L = corpus.languages.length;
+  const rows = corpus.wordBase[L];
+  if (feats.groupPattern.length !== G) throw new Error(`Features describe ${feats.groupPattern.length} groups; the corpus has ${G}.`);
+
+  const keep = Math.max(0, Math.min(s.keepThetaSamples, Math.floor(s.maxThetaSampleCells / Math.max(1, G * K))));
+  let rng: Xoshiro128;
+  let z: Uint16Array;
+  let lambda: Float64Array;
+  let beta: Float64Array;
+  let trace: number[];
+  let phiSum: Float64Array;
+  let thetaSum: Float64Array;
+  let numSamples: number;
+  let thetaSamples: Float32Array[];
+  let thetaSampleSweeps: number[];
+  let optimizations: number;
+  let start: number;
+  const cp = hooks.resumeFrom;
+  if (cp) {
+    if (cp.version !== CHECKPOINT_VERSION) throw new Error(`Checkpoint version ${cp.version} cannot be resumed by this version.`);
+    if (cp.K !== K || cp.z.length !== N || cp.numFeatures !== F || cp.beta.length !== L || cp.thetaSum.length !== G * K) {
+      throw new Error('This checkpoint belongs to a different corpus or settings (themes, tokens or covariates differ); start a new run.');
+    }
+    rng = Xoshiro128.fromState(cp.rngState);
+    z = cp.z.slice();
+    lambda = cp.lambda.slice();
+    beta = cp.beta.slice();
+    trace = [...cp.logLikelihoodTrace];
+    phiSum = cp.phiSum.slice();
+    thetaSum = cp.thetaSum.slice();
+    numSamples = cp.numSamples;
+    thetaSamples = cp.thetaSamples.map((a) => a.slice());
+    thetaSampleSweeps = [...cp.thetaSampleSweeps];
+    optimizations = cp.optimizations;
+    start = cp.sweep;
+  } else {
+    rng = Xoshiro128.fromSeed(s.seed);
+    lambda = new Float64Array(K * F);
+    for (let k = 0; k < K; k++) lambda[k * F] = Math.log(s.initialAlpha);
+    beta = new Float64Array(L).fill(s.initialBeta);
+    const initPriors: Priors = { K, groupPattern: feats.groupPattern, alpha: alphaFromLambda(lambda, feats.patterns, K, F), beta };
+    z =
+      s.initialization === 'random'
+        ? randomAssignments(corpus, K, rng)
+        : await initialAssignments(corpus, initPriors, rng, s.samplerFactory, s.warmStartSweeps);
+    trace = [];
+    phiSum = new Float64Array(rows * K);
+    thetaSum = new Float64Array(G * K);
+    numSamples = 0;
+    thetaSamples = [];
+    thetaSampleSweeps = [];
+    optimizations = 0;
+    start = 0;
+  }
+
+  let priors: Priors = { K, groupPattern: feats.groupPattern, alpha: alphaFromLambda(lambda, feats.patterns, K, F), beta };
+  const sampler = s.samplerFactory(corpus, z, priors);
+  const began = performance.now();
+  let sweep = start;
+  let stopped = false;
+  const snapshot = (): Checkpoint => ({
+    version: CHECKPOINT_VERSION,
+    K,
+    sweep,
+    z: sampler.z.slice(),
+    rngState: rng.saveState(),
+    lambda: lambda.slice(),
+    numFeatures: F,
+    beta: beta.slice(),
+    logLikelihoodTrace: Float64Array.from(trace),
+    phiSum: phiSum.slice(),
+    thetaSum: thetaSum.slice(),
+    numSamples,
+    thetaSamples: thetaSamples.map((a) => a.slice()),
+    thetaSampleSweeps: [...thetaSampleSweeps],
+    optimizations,
+  });
+  try {
+    while (sweep < s.sweeps) {
+      sampler.sweep(rng);
+      sweep++;
+      if (s.optimizeEvery > 0 && sweep > s.optimizeFrom && sweep % s.optimizeEvery === 0 && sweep < s.sweeps) {
+        if (s.optimizeBeta) {
+          const nkw = sampler.wordTopicCounts();
+          const nk = sampler.topicTotals();
+          beta = beta.slice();
+          for (let l = 0; l < L; l++) {
+            const h = betaHistogram(nkw, corpus.wordBase[l] * K, corpus.wordBase[l + 1] * K, nk.subarray(l * K, (l + 1) * K), corpus.vocabSizes[l]);
+            beta[l] = optimizeBeta(h, beta[l]);
+          }
+        }
+        if (s.optimizeLambda) {
+          const h = dmrHistograms(corpus, sampler.z, K, feats.groupPattern, feats.numPatterns);
+          lambda = optimizeLambda(h, feats.patterns, F, lambda, s.priorVariance).lambda;
+        }
+        priors = { K, groupPattern: feats.groupPattern, alpha: alphaFromLambda(lambda, feats.patterns, K, F), beta };
+        sampler.setPriors(priors);
+        optimizations++;
+      }
+      const nkw = sampler.wordTopicCounts();
+      const nk = sampler.topicTotals();
+      const ll = logJointLikelihood(corpus, sampler.z, K, priors, { nkw, nk }) / Math.max(1, N);
+      trace.push(ll);
+      if (sweep > s.burnIn && (sweep - s.burnIn) % s.sampleEvery === 0) {
+        accumulatePhi(corpus, K, beta, nkw, nk, phiSum);
+        const sample = new Float32Array(G * K);
+        groupMixtures(corpus, sampler.z, priors, sample, thetaSum);
+        numSamples++;
+        if (keep > 0) {
+          thetaSamples.push(sample);
+          thetaSampleSweeps.push(sweep);
+          if (thetaSamples.length > keep) {
+            thetaSamples.shift();
+            thetaSampleSweeps.shift();
+          }
+        }
+      }
+      const seconds = (performance.now() - began) / 1000;
+      const done = sweep - start;
+      hooks.onSweep?.({
+        sweep,
+        sweeps: s.sweeps,
+        tokensPerSecond: seconds > 0 ? (done * N) / seconds : 0,
+        logLikelihoodPerToken: ll,
+        eta: done > 0 ? (seconds / done) * (s.sweeps - sweep) : 0,
+      });
+      stopped = sweep < s.sweeps && (hooks.shouldStop?.() ?? false);
+      if (hooks.onCheckpoint && ((s.checkpointEvery > 0 && sweep % s.checkpointEvery === 0) || stopped)) await hooks.onCheckpoint(snapshot());
+      if (stopped) break;
+      // Let the event loop deliver messages (cancel requests) between sweeps.
+      await new Promise<void>((r) => setImmediate(r));
+    }
+  } catch (error) {
+    await sampler.dispose?.();
+    throw error;
+  }
+
+  const seconds = (performance.now() - began) / 1000;
+  const nkw = sampler.wordTopicCounts().slice();
+  const nk = sampler.topicTotals().slice();
+  // Without saved samples (stopped early), report the current state's conditional means.
+  let phiS = phiSum;
+  let thetaS = thetaSum;
+  let count = numSamples;
+  if (count === 0) {
+    phiS = new Float64Array(rows * K);
+    thetaS = new Float64Array(G * K);
+    accumulatePhi(corpus, K, beta, nkw, nk, phiS);
+    groupMixtures(corpus, sampler.z, priors, new Float64Array(G * K), thetaS);
+    count = 1;
+  }
+  const theta = new Float64Array(G * K);
+  for (let i = 0; i < theta.length; i++) theta[i] = thetaS[i] / count;
+  const checkpoint = snapshot();
+  const finalZ = sampler.z.slice();
+  await sampler.dispose?.();
+  return {
+    K,
+    languages: corpus.languages,
+    phi: phiByLanguage(corpus, K, phiS, count),
+    theta,
+    thetaSamples,
+    thetaSampleSweeps,
+    lambda,
+    featureNames: feats.encoding.names,
+    alpha: priors.alpha,
+    groupPattern: feats.groupPattern,
+    beta,
+    logLikelihoodTrace: Float64Array.from(trace),
+    z: finalZ,
+    wordTopicCounts: nkw,
+    topicTotals: nk,
+    checkpoint,
+    diagnostics: {
+      sampler: sampler.name,
+      sweepsCompleted: sweep,
+      stopped,
+      samples: numSamples,
+      tokens: N,
+      seconds,
+      tokensPerSecond: seconds > 0 ? ((sweep - start) * N) / seconds : 0,
+      optimizations,
+      finalLogLikelihoodPerToken: trace.length > 0 ? trace[trace.length - 1] : NaN,
+    },
+  };
+}

@@ -1,0 +1,60 @@
+// Worker thread of the parallel sampler: keeps its own copy of the counts (FastState), samples
+// its partition of link groups with the fast exact sweep, and merges the other partitions' moves
+// after every sweep (AD-LDA, Newman, Asuncion, Smyth & Welling, "Distributed algorithms for topic
+// models", JMLR 10, 2009, §2). Commands arrive through shared control slots (protocol.ts).
+import { receiveMessageOnPort, workerData } from 'node:worker_threads';
+import { FastState } from '../fast-state.js';
+import { createScratch, sweepGroups, type FastScratch } from '../fast-sweep.js';
+import { Xoshiro128 } from '../rng.js';
+import {
+  ARG, CMD, CMD_EXIT, CMD_INIT, CMD_MERGE, CMD_PRIORS, CMD_SWEEP, CTRL_SLOTS, DONE, GEN, LOG_LENGTH,
+  STATUS, STATUS_ERROR, STATUS_OK, type InitMessage, type WorkerBoot,
+} from './protocol.js';
+import { mergeOtherLogs } from './merge.js';
+
+const boot = workerData as WorkerBoot;
+const ctrl = boot.ctrl;
+let job: InitMessage | null = null;
+let state: FastState | null = null;
+let scratch: FastScratch | null = null;
+// GEN starts at 0 in a fresh control block; INIT may have been posted before this module loaded.
+let seen = 0;
+
+function run(cmd: number): void {
+  if (cmd === CMD_INIT) {
+    const received = receiveMessageOnPort(boot.port);
+    if (!received) throw new Error('Parallel sampler: the worker found no initialisation message.');
+    job = received.message as InitMessage;
+    state = new FastState(job.corpus, job.z, { K: job.K, groupPattern: job.groupPattern, alpha: job.alpha, beta: job.beta });
+    if (scratch === null || scratch.ngk.length !== job.K) scratch = createScratch(job.K);
+    return;
+  }
+  if (job === null || state === null || scratch === null) throw new Error('Parallel sampler: worker used before initialisation.');
+  const p = boot.index;
+  if (cmd === CMD_SWEEP) {
+    const rng = Xoshiro128.fromSeed(Atomics.load(ctrl, ARG), p);
+    const length = sweepGroups(state, scratch, job.z, job.groupPattern, job.bounds[p], job.bounds[p + 1], rng, job.logs[p]);
+    Atomics.store(ctrl, LOG_LENGTH, length);
+  } else if (cmd === CMD_MERGE) {
+    mergeOtherLogs(state, job.logs, job.ctrlAll, p);
+  } else if (cmd === CMD_PRIORS) {
+    state.setPriors({ K: job.K, groupPattern: job.groupPattern, alpha: job.alpha, beta: job.beta });
+  }
+}
+
+for (;;) {
+  Atomics.wait(ctrl, GEN, seen);
+  seen = Atomics.load(ctrl, GEN);
+  const cmd = Atomics.load(ctrl, CMD);
+  if (cmd === CMD_EXIT) break;
+  try {
+    run(cmd);
+    Atomics.store(ctrl, STATUS, STATUS_OK);
+  } catch (error) {
+    Atomics.store(ctrl, STATUS, STATUS_ERROR);
+    boot.port.postMessage({ error: String((error as Error)?.stack ?? error) });
+  }
+  Atomics.store(ctrl, DONE, seen);
+  Atomics.notify(ctrl, DONE);
+}
+void CTRL_SLOTS;

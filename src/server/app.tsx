@@ -1,0 +1,67 @@
+// The composition root of the workbench: security headers, static assets, sign-in, session and
+// CSRF checks, then the pages. Routes are thin: parse → call store/services → render a view.
+import { Hono } from 'hono';
+import { bodyLimit } from 'hono/body-limit';
+import { HTTPException } from 'hono/http-exception';
+import { ErrorPage } from '../../views/pages/login.js';
+import { InputError } from '../text/types.js';
+import { assetRoutes } from './assets.js';
+import { csrfMiddleware, sessionMiddleware } from './auth.js';
+import { renderPage } from './render.js';
+import { dataRoutes } from './routes/data.js';
+import { languageRoutes } from './routes/languages.js';
+import { loginRoutes } from './routes/login.js';
+import { resultRoutes } from './routes/results.js';
+import { runRoutes } from './routes/runs.js';
+import { studyRoutes } from './routes/studies.js';
+import { vocabularyRoutes } from './routes/vocabulary.js';
+import { exportRoutes } from './routes/export.js';
+import { RunDataCache } from './results/run-data.js';
+import { securityHeaders } from './security.js';
+import type { AppDeps, AppEnv } from './types.js';
+
+export const DEFAULT_UPLOAD_LIMIT = 100 * 1024 * 1024;
+
+export function createApp(deps: AppDeps): Hono<AppEnv> {
+  const app = new Hono<AppEnv>();
+  const limit = deps.uploadLimitBytes ?? DEFAULT_UPLOAD_LIMIT;
+  app.use('*', securityHeaders());
+  app.use('*', async (c, next) => {
+    c.set('deps', deps);
+    await next();
+  });
+  app.use(
+    '*',
+    bodyLimit({
+      maxSize: limit + 64 * 1024,
+      onError: (c) => c.text(`The upload is larger than the limit of ${Math.round(limit / 1048576)} MB. Split the file and import the parts one by one.`, 413),
+    }),
+  );
+  app.route('/assets', assetRoutes());
+  app.use('*', sessionMiddleware());
+  app.use('*', csrfMiddleware());
+  app.route('/', loginRoutes());
+  app.route('/', studyRoutes());
+  app.route('/', dataRoutes());
+  app.route('/', languageRoutes());
+  app.route('/', vocabularyRoutes());
+  app.route('/', runRoutes());
+  const runData = new RunDataCache(deps.store);
+  app.route('/', resultRoutes(runData));
+  app.route('/', exportRoutes(runData));
+
+  app.notFound((c) => renderPage(c, <ErrorPage status={404} message="There is no such page." />, 404));
+  app.onError((error, c) => {
+    if (error instanceof HTTPException) {
+      const status = error.status;
+      if (c.req.header('HX-Request') === 'true') return c.text(error.message, status);
+      return renderPage(c, <ErrorPage status={status} message={error.message || 'That did not work.'} />, status as 400);
+    }
+    if (error instanceof InputError) {
+      return renderPage(c, <ErrorPage status={400} message={error.message} />, 400);
+    }
+    console.error(error);
+    return renderPage(c, <ErrorPage status={500} message="Themata hit an unexpected problem. Nothing you uploaded was lost; try again, and if it keeps happening, report the steps that led here." />, 500);
+  });
+  return app;
+}

@@ -1,0 +1,31 @@
+// Static assets, all served by Themata itself (nothing is fetched from outside): htmx and its SSE
+// extension from node_modules, and our own CSS and script from public/. Fixed names only: no
+// request path is ever used to build a file path.
+import { readFileSync } from 'node:fs';
+import { createRequire } from 'node:module';
+import { Hono } from 'hono';
+
+const require = createRequire(import.meta.url);
+const publicDir = new URL('../../public/', import.meta.url);
+
+const FILES: Record<string, { load: () => Buffer; type: string }> = {
+  'htmx.min.js': { load: () => readFileSync(require.resolve('htmx.org/dist/htmx.min.js')), type: 'text/javascript; charset=utf-8' },
+  'htmx-sse.js': { load: () => readFileSync(require.resolve('htmx-ext-sse/dist/sse.js')), type: 'text/javascript; charset=utf-8' },
+  'app.js': { load: () => readFileSync(new URL('app.js', publicDir)), type: 'text/javascript; charset=utf-8' },
+  'app.css': { load: () => readFileSync(new URL('app.css', publicDir)), type: 'text/css; charset=utf-8' },
+};
+
+const cache = new Map<string, Buffer>();
+
+export function assetRoutes(): Hono {
+  const app = new Hono();
+  app.get('/:name', (c) => {
+    const name = c.req.param('name');
+    const file = Object.hasOwn(FILES, name) ? FILES[name] : undefined;
+    if (!file) return c.text('Not found', 404);
+    let bytes = cache.get(name);
+    if (!bytes) cache.set(name, (bytes = file.load()));
+    return c.body(new Uint8Array(bytes), 200, { 'Content-Type': file.type, 'Cache-Control': 'no-cache' });
+  });
+  return app;
+}

@@ -1,0 +1,144 @@
+// A finished run's results held in memory for the results pages: the fitted model (services'
+// loadRunModel), each fitted answer's text and metadata, overall shares, language balance and
+// top words. Results of a finished run do not change (labels are patched in place), so a small
+// cache keeps page latency low on large studies; contrasts are cached per covariate.
+import { contrastCovariates, loadRunModel, overallShares, runContrasts, themeWords, type RunModel, type ThemeWord } from '../../services/index.js';
+import type { ContrastResult } from '../../stats/index.js';
+import { getThemeLabels, iterateDocuments, type Store } from '../../store/index.js';
+
+export interface FittedAnswer {
+  readonly id: number;
+  readonly rowId: string;
+  readonly question: string;
+  readonly text: string;
+  readonly language: string;
+  readonly covariates: Record<string, string | number | null>;
+  readonly weight: number;
+}
+
+export interface RunData {
+  readonly model: RunModel;
+  /** Per corpus document d (the order of model.documentIds). */
+  readonly answers: FittedAnswer[];
+  readonly docLanguage: Int32Array;
+  readonly weights: Float64Array;
+  /** Weighted overall share per theme. */
+  readonly shares: Float64Array;
+  /** K×L: share of each theme's weight coming from answers in each language (rows sum to 1). */
+  readonly balance: Float64Array;
+  /** Dominant theme per corpus document. */
+  readonly dominant: Int32Array;
+  readonly covariateNames: string[];
+  topWords(k: number, language: string, n: number): ThemeWord[];
+  contrast(by: string, draws?: number): ContrastResult;
+}
+
+const MAX_CACHED = 4; // common practice: a few runs open at once on a lab server
+
+export class RunDataCache {
+  private readonly entries = new Map<number, RunData>();
+
+  constructor(private readonly store: Store) {}
+
+  get(runId: number): RunData | undefined {
+    const hit = this.entries.get(runId);
+    if (hit) {
+      this.entries.delete(runId);
+      this.entries.set(runId, hit);
+      return hit;
+    }
+    const data = this.load(runId);
+    if (!data) return undefined;
+    this.entries.set(runId, data);
+    while (this.entries.size > MAX_CACHED) this.entries.delete(this.entries.keys().next().value!);
+    return data;
+  }
+
+  /** Re-read labels after a rename. */
+  refreshLabels(runId: number): void {
+    const data = this.entries.get(runId);
+    if (!data) return;
+    const labels = getThemeLabels(this.store, runId);
+    const arr = data.model.labels as string[];
+    for (let k = 0; k < arr.length; k++) arr[k] = labels.get(k) ?? `Theme ${k + 1}`;
+    (data as { contrasts?: Map<string, ContrastResult> }).contrasts?.clear();
+  }
+
+  forget(runId: number): void {
+    this.entries.delete(runId);
+  }
+
+  private load(runId: number): RunData | undefined {
+    const store = this.store;
+    const model = loadRunModel(store, runId);
+    if (!model) return undefined;
+    const { K } = model;
+    const D = model.documentIds.length;
+    const index = new Map<number, number>();
+    model.documentIds.forEach((id, d) => index.set(id, d));
+    const answers = new Array<FittedAnswer>(D);
+    const docLanguage = new Int32Array(D).fill(-1);
+    const weights = new Float64Array(D).fill(1);
+    const langIndex = new Map(model.languages.map((l, i) => [l, i]));
+    for (const doc of iterateDocuments(store, model.run.studyId)) {
+      const d = index.get(doc.id);
+      if (d === undefined) continue;
+      const language = doc.vocabularyLanguage ?? doc.language ?? '';
+      answers[d] = { id: doc.id, rowId: doc.rowId, question: doc.question, text: doc.text, language, covariates: doc.covariates, weight: doc.weight };
+      docLanguage[d] = langIndex.get(language) ?? -1;
+      weights[d] = Number.isFinite(doc.weight) && doc.weight >= 0 ? doc.weight : 0;
+    }
+    for (let d = 0; d < D; d++) {
+      answers[d] ??= { id: model.documentIds[d], rowId: '', question: '', text: '', language: '', covariates: {}, weight: 1 };
+    }
+    const weightMap = new Map<number, number>();
+    model.documentIds.forEach((id, d) => weightMap.set(id, weights[d]));
+    const shares = overallShares(model, weightMap);
+    const L = model.languages.length;
+    const balance = new Float64Array(K * L);
+    const dominant = new Int32Array(D);
+    const theta = model.thetaGroups;
+    for (let d = 0; d < D; d++) {
+      const base = model.docGroup[d] * K;
+      const l = docLanguage[d];
+      let best = 0;
+      for (let k = 0; k < K; k++) {
+        if (l >= 0) balance[k * L + l] += weights[d] * theta[base + k];
+        if (theta[base + k] > theta[base + best]) best = k;
+      }
+      dominant[d] = best;
+    }
+    for (let k = 0; k < K; k++) {
+      let s = 0;
+      for (let l = 0; l < L; l++) s += balance[k * L + l];
+      if (s > 0) for (let l = 0; l < L; l++) balance[k * L + l] /= s;
+    }
+    const words = new Map<string, ThemeWord[]>();
+    const contrasts = new Map<string, ContrastResult>();
+    const covariateNames = contrastCovariates(store, model.run.studyId);
+    const data: RunData & { contrasts: Map<string, ContrastResult> } = {
+      model,
+      answers,
+      docLanguage,
+      weights,
+      shares,
+      balance,
+      dominant,
+      covariateNames,
+      contrasts,
+      topWords(k, language, n) {
+        const key = `${k}|${language}`;
+        let list = words.get(key);
+        if (!list || list.length < n) words.set(key, (list = themeWords(model, k, language, Math.max(n, 30))));
+        return list.slice(0, n);
+      },
+      contrast(by, draws = 400) {
+        const key = `${by}|${draws}`;
+        let res = contrasts.get(key);
+        if (!res) contrasts.set(key, (res = runContrasts(store, model, { by, draws })));
+        return res;
+      },
+    };
+    return data;
+  }
+}

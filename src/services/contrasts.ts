@@ -1,0 +1,61 @@
+// Group contrasts for a run (DESIGN §6): the fitted answers' posterior mixture samples, the
+// chosen covariate's levels and the survey weights, handed to src/stats.
+import { groupContrasts, type ContrastResult } from '../stats/index.js';
+import { covariateLevels, iterateDocuments, type Store } from '../store/index.js';
+import { InputError } from '../text/types.js';
+import type { RunModel } from './run-model.js';
+
+export interface ContrastRequest {
+  /** Covariate name; also 'language' and 'question'. */
+  by: string;
+  draws?: number;
+  seed?: number;
+  reference?: string;
+  fdr?: number | null;
+  /** Bins for a numeric covariate (quartiles by default). */
+  bins?: number;
+}
+
+/** Names a contrast can be asked for: the study's covariates, plus language and question. */
+export function contrastCovariates(store: Store, studyId: number): string[] {
+  return ['language', 'question', ...Object.keys(covariateLevels(store, studyId, 1))];
+}
+
+/** Most θ values held in memory for the draws (≈40 MB of float32; common practice). */
+const MAX_THETA_VALUES = 10_000_000;
+
+export function runContrasts(store: Store, model: RunModel, request: ContrastRequest): ContrastResult {
+  const known = contrastCovariates(store, model.run.studyId);
+  if (!known.includes(request.by)) throw new InputError(`There is no covariate "${request.by}" in this study. Choose one of: ${known.join(', ')}.`);
+  const { K } = model;
+  const D = model.documentIds.length;
+  const index = new Map<number, number>();
+  model.documentIds.forEach((id, d) => index.set(id, d));
+  const weights = new Float64Array(D).fill(1);
+  const raw: (string | number | null)[] = new Array(D).fill(null);
+  for (const doc of iterateDocuments(store, model.run.studyId, { excluded: false })) {
+    const d = index.get(doc.id);
+    if (d === undefined) continue;
+    weights[d] = doc.weight;
+    raw[d] = request.by === 'language' ? doc.language : request.by === 'question' ? doc.question : (doc.covariates[request.by] ?? null);
+  }
+  const numeric = raw.every((v) => v === null || typeof v === 'number') && raw.some((v) => v !== null) && request.by !== 'language' && request.by !== 'question';
+  const S = Math.max(1, Math.min(model.thetaSamples.length, Math.floor(MAX_THETA_VALUES / Math.max(1, D * K))));
+  const sources = model.thetaSamples.length ? model.thetaSamples.slice(-S) : [Float32Array.from(model.thetaGroups)];
+  const samples = sources.map((groups) => {
+    const out = new Float32Array(D * K);
+    for (let d = 0; d < D; d++) out.set(groups.subarray(model.docGroup[d] * K, model.docGroup[d] * K + K), d * K);
+    return out;
+  });
+  const options = { weights, draws: request.draws ?? 1000, seed: request.seed ?? 1, themeLabels: model.labels, fdr: request.fdr === undefined ? 0.05 : request.fdr, ...(request.reference ? { reference: request.reference } : {}) };
+  if (numeric) {
+    const values = Float64Array.from(raw, (v) => (typeof v === 'number' ? v : NaN));
+    return groupContrasts({ K, D, samples }, { name: request.by, kind: 'numeric', values, bins: request.bins }, options);
+  }
+  const levels = [...new Set(raw.filter((v): v is string | number => v !== null).map(String))].sort((a, b) => a.localeCompare(b, undefined, { numeric: true }));
+  const levelIndex = new Map(levels.map((l, i) => [l, i]));
+  const levelOfDoc = Int32Array.from(raw, (v) => (v === null ? -1 : levelIndex.get(String(v))!));
+  return groupContrasts({ K, D, samples }, { name: request.by, kind: 'categorical', levels, levelOfDoc }, options);
+}
+
+export const SHARES_HEADER = ['covariate', 'level', 'theme', 'share', 'low', 'high', 'n', 'effective n'];

@@ -1,0 +1,157 @@
+// Importing a file into a study (DESIGN §3, issue 2): read and map the file, decide each answer's
+// language, keep the original bytes, then re-run the vocabulary over the whole study. Reading
+// and checking happen before anything is written; every write is one transaction, so bad input
+// (an InputError) or a failure half-way leaves the study exactly as it was.
+import { createStudy, getStudy, getStudyByName, inTransaction, insertDocuments, insertImport, setImportSummary, updateStudy, type Store } from '../store/index.js';
+import type { ColumnMapping, TableFormat } from '../text/types.js';
+import { DEFAULT_LANGUAGES, InputError, decideLanguages, mapInputColumns, normalizeLanguages, readInputTable } from './text-pipeline.js';
+import { rebuildVocabulary } from './vocabulary.js';
+
+export interface ImportProgress {
+  readonly phase: 'reading' | 'languages' | 'saving' | 'vocabulary' | 'done';
+  readonly done: number;
+  readonly total: number;
+}
+
+export interface ImportOptions {
+  /** Study name (created when missing) or id (must exist). */
+  study: string | number;
+  bytes: Uint8Array;
+  fileName: string;
+  mapping: ColumnMapping;
+  /** Declared languages of the study (any common tag spelling); added to the study's own. */
+  languages?: string[];
+  sheet?: string;
+  /** Default true: a declared language column wins over detection. */
+  trustDeclared?: boolean;
+  onProgress?: (progress: ImportProgress) => void;
+}
+
+export interface ImportSummary {
+  readonly studyId: number;
+  readonly studyName: string;
+  readonly studyCreated: boolean;
+  readonly importId: number;
+  readonly fileName: string;
+  readonly format: TableFormat;
+  readonly encoding: string;
+  readonly encodingConfidence?: number;
+  readonly delimiter?: string;
+  readonly sheet?: string;
+  readonly rows: number;
+  /** Documents this import added (one per non-empty text cell). */
+  readonly documents: number;
+  /** Documents of this import per decided language. */
+  readonly documentsPerLanguage: Record<string, number>;
+  /** How languages were decided in this import: declared, detected, adapted, undetermined. */
+  readonly languageSources: Record<string, number>;
+  readonly undetermined: number;
+  /** Excluded documents of this import per reason. */
+  readonly excluded: Record<string, number>;
+  /** Vocabulary size per language over the whole study after this import. */
+  readonly vocabularySizes: Record<string, number>;
+  readonly studyLanguages: string[];
+}
+
+export async function importFile(store: Store, options: ImportOptions): Promise<ImportSummary> {
+  const progress = options.onProgress ?? (() => {});
+  const existing = typeof options.study === 'number' ? getStudy(store, options.study) : getStudyByName(store, options.study.trim());
+  if (typeof options.study === 'number' && !existing) throw new InputError(`There is no study with id ${options.study}.`);
+  if (typeof options.study === 'string' && !options.study.trim()) throw new InputError('Give the study a name (--study NAME).');
+  if (options.mapping.text.length === 0) throw new InputError('Choose at least one text column (--text COL).', options.fileName);
+
+  progress({ phase: 'reading', done: 0, total: options.bytes.byteLength });
+  const table = await readInputTable(options.bytes, options.fileName, options.sheet);
+  progress({ phase: 'reading', done: options.bytes.byteLength, total: options.bytes.byteLength });
+
+  let languages = normalizeLanguages([...(existing?.languages ?? []), ...(options.languages ?? [])]);
+  const docs = mapInputColumns(table, options.mapping, languages);
+  if (docs.length === 0) {
+    throw new InputError(`No answers to import: every cell of ${options.mapping.text.map((c) => `"${c}"`).join(', ')} is empty.`, options.fileName, undefined, options.mapping.text[0]);
+  }
+  const explicit = languages.length > 0;
+  if (!explicit) {
+    const declared = [...new Set(docs.map((d) => d.declaredLanguage).filter((x): x is string => !!x))];
+    languages = declared.length > 0 ? declared : [...DEFAULT_LANGUAGES];
+  }
+
+  progress({ phase: 'languages', done: 0, total: docs.length });
+  const outcomes = decideLanguages(docs.map((d) => d.text), languages, docs.map((d) => d.declaredLanguage), options.trustDeclared !== false);
+  const decisions = outcomes.map((o) => o.decision);
+  progress({ phase: 'languages', done: docs.length, total: docs.length });
+  const found = [...new Set(decisions.map((d) => d.language).filter((x): x is string => !!x))];
+  // Declared languages stay; without any, the study's languages are the ones actually found.
+  const studyLanguages = explicit ? [...languages, ...found.filter((l) => !languages.includes(l))] : found.sort();
+
+  progress({ phase: 'saving', done: 0, total: docs.length });
+  return inTransaction(store, () => {
+    const study = existing ?? createStudy(store, { name: (options.study as string).trim(), languages: studyLanguages });
+    if (existing) updateStudy(store, study.id, { languages: studyLanguages });
+    const importId = insertImport(store, {
+      studyId: study.id,
+      fileName: options.fileName,
+      format: table.format,
+      bytes: options.bytes,
+      encoding: table.assumed.encoding,
+      mapping: options.mapping,
+    });
+    const ids = insertDocuments(
+      store,
+      study.id,
+      importId,
+      docs.map((d, i) => ({
+        rowId: d.rowId,
+        question: d.question,
+        text: d.text,
+        language: decisions[i].language,
+        languageSource: decisions[i].source,
+        confidence: decisions[i].confidence,
+        declaredLanguage: d.declaredLanguage ?? null,
+        writtenLanguage: outcomes[i].written,
+        linkKey: d.linkKey ?? null,
+        covariates: d.covariates,
+        weight: d.weight,
+        excluded: decisions[i].language === null ? 'undetermined' : null,
+      })),
+    );
+    progress({ phase: 'vocabulary', done: 0, total: ids.length });
+    const vocab = rebuildVocabulary(store, study.id, (done, total) => progress({ phase: 'vocabulary', done, total }));
+    const mine = new Set(ids);
+    const excluded: Record<string, number> = {};
+    const rows = store.db
+      .prepare('SELECT excluded, COUNT(*) AS n FROM documents WHERE import_id = ? AND excluded IS NOT NULL GROUP BY excluded')
+      .all(importId) as { excluded: string; n: number }[];
+    for (const r of rows) excluded[r.excluded] = r.n;
+    const perLanguage: Record<string, number> = {};
+    const sources: Record<string, number> = {};
+    let undetermined = 0;
+    decisions.forEach((d) => {
+      if (d.language === null) undetermined++;
+      else perLanguage[d.language] = (perLanguage[d.language] ?? 0) + 1;
+      sources[d.source] = (sources[d.source] ?? 0) + 1;
+    });
+    const summary: ImportSummary = {
+      studyId: study.id,
+      studyName: study.name,
+      studyCreated: !existing,
+      importId,
+      fileName: options.fileName,
+      format: table.format,
+      encoding: table.assumed.encoding,
+      ...(table.assumed.encodingConfidence !== undefined ? { encodingConfidence: table.assumed.encodingConfidence } : {}),
+      ...(table.assumed.delimiter !== undefined ? { delimiter: table.assumed.delimiter } : {}),
+      ...(table.assumed.sheet !== undefined ? { sheet: table.assumed.sheet } : {}),
+      rows: table.rows.length,
+      documents: mine.size,
+      documentsPerLanguage: perLanguage,
+      languageSources: sources,
+      undetermined,
+      excluded,
+      vocabularySizes: vocab.vocabularySizes,
+      studyLanguages,
+    };
+    setImportSummary(store, importId, summary);
+    progress({ phase: 'done', done: ids.length, total: ids.length });
+    return summary;
+  });
+}

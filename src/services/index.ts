@@ -1,0 +1,26 @@
+// Public surface of the services: orchestration that glues the pure core (text, model, stats)
+// to the store. Used by the command line, the workbench routes and the fit worker.
+export { importFile, type ImportOptions, type ImportSummary, type ImportProgress } from './import-file.js';
+export { rebuildVocabulary, type VocabularyRebuild } from './vocabulary.js';
+export {
+  fitSettings,
+  validateFit,
+  createFitRun,
+  requireStudy,
+  runFitJob,
+  prepareCorpus,
+  type FitRequest,
+  type FitJobOptions,
+  type FitJobOutcome,
+  type FitDiagnostics,
+} from './fit-run.js';
+export { loadRunModel, themeWords, documentMixtures, overallShares, dominantTheme, themeLabel, type RunModel, type ThemeWord } from './run-model.js';
+export { runContrasts, contrastCovariates, SHARES_HEADER, type ContrastRequest } from './contrasts.js';
+export { exportRun, buildBundle, studyAnswerRows, studyCovariates, type ExportedFile, type ExportOptions } from './export-run.js';
+export { applyRun, type ApplyOptions, type ApplySummary } from './apply-run.js';
+export { encodeBundle, decodeBundle, BUNDLE_EXTENSION, type RunBundle } from './bundle.js';
+export { answersTable, shareColumns, type AnswerRow } from './answers-table.js';
+export { toCsv, csvBytes, guardCell } from './csv.js';
+export { foldInDocuments, type FoldInDocument, type FoldInResult } from './fold-in.js';
+export { ensureDemoStudy, DEMO_STUDY_NAME, DEMO_FILE, type DemoOutcome } from './demo.js';
+export { runChecks, type RunChecks } from './checks.js';

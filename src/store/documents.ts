@@ -1,0 +1,280 @@
+// Documents: one text cell each, with its language decision, link key, covariates, weight,
+// exclusion reason and token ids (Int32Array bytes into its language's vocabulary).
+import type { LanguageSource } from '../text/types.js';
+import { int32FromBlob, toBlob } from './blobs.js';
+import { inTransaction, type Store } from './database.js';
+
+export interface NewDocument {
+  readonly rowId: string;
+  readonly question: string;
+  readonly text: string;
+  readonly language: string | null;
+  readonly languageSource: LanguageSource;
+  readonly confidence: number;
+  readonly declaredLanguage?: string | null;
+  /** Language of the text judged from the text alone (null: too little evidence or not judged). */
+  readonly writtenLanguage?: string | null;
+  readonly linkKey?: string | null;
+  readonly covariates: Record<string, string | number | null>;
+  readonly weight: number;
+  readonly excluded?: string | null;
+}
+
+export interface DocumentRecord extends NewDocument {
+  readonly id: number;
+  readonly studyId: number;
+  readonly importId: number;
+  readonly declaredLanguage: string | null;
+  readonly writtenLanguage: string | null;
+  readonly linkKey: string | null;
+  readonly excluded: string | null;
+  readonly vocabularyLanguage: string | null;
+}
+
+/** A document with its tokens, for building a corpus. */
+export interface DocumentTokens {
+  readonly id: number;
+  readonly language: string;
+  readonly linkKey: string | null;
+  readonly covariates: Record<string, string | number | null>;
+  readonly weight: number;
+  readonly tokens: Int32Array;
+}
+
+interface DocumentRow {
+  id: number;
+  study_id: number;
+  import_id: number;
+  row_id: string;
+  question: string;
+  text: string;
+  language: string | null;
+  language_source: LanguageSource;
+  confidence: number;
+  declared_language: string | null;
+  written_language: string | null;
+  link_key: string | null;
+  covariates: string;
+  weight: number;
+  excluded: string | null;
+  vocabulary_language: string | null;
+}
+
+const COLUMNS = 'id, study_id, import_id, row_id, question, text, language, language_source, confidence, declared_language, written_language, link_key, covariates, weight, excluded, vocabulary_language';
+
+function toDocument(row: DocumentRow): DocumentRecord {
+  return {
+    id: row.id,
+    studyId: row.study_id,
+    importId: row.import_id,
+    rowId: row.row_id,
+    question: row.question,
+    text: row.text,
+    language: row.language,
+    languageSource: row.language_source,
+    confidence: row.confidence,
+    declaredLanguage: row.declared_language,
+    writtenLanguage: row.written_language,
+    linkKey: row.link_key,
+    covariates: JSON.parse(row.covariates) as Record<string, string | number | null>,
+    weight: row.weight,
+    excluded: row.excluded,
+    vocabularyLanguage: row.vocabulary_language,
+  };
+}
+
+/** Insert documents of one import (one transaction); returns their ids in input order. */
+export function insertDocuments(store: Store, studyId: number, importId: number, docs: readonly NewDocument[]): number[] {
+  const stmt = store.db.prepare(
+    `INSERT INTO documents (study_id, import_id, row_id, question, text, language, language_source, confidence, declared_language, written_language, link_key, covariates, weight, excluded)
+     VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+  );
+  return inTransaction(store, () =>
+    docs.map((d) =>
+      Number(
+        stmt.run(studyId, importId, d.rowId, d.question, d.text, d.language, d.languageSource, d.confidence, d.declaredLanguage ?? null, d.writtenLanguage ?? null, d.linkKey ?? null, JSON.stringify(d.covariates), d.weight, d.excluded ?? null)
+          .lastInsertRowid,
+      ),
+    ),
+  );
+}
+
+/** Store token ids, vocabulary language and exclusion per document id (one transaction). */
+export function setDocumentTokens(
+  store: Store,
+  updates: readonly { id: number; vocabularyLanguage: string | null; tokens: Int32Array | null; excluded: string | null }[],
+): void {
+  const stmt = store.db.prepare('UPDATE documents SET vocabulary_language = ?, tokens = ?, excluded = ? WHERE id = ?');
+  inTransaction(store, () => {
+    for (const u of updates) stmt.run(u.vocabularyLanguage, u.tokens ? toBlob(u.tokens) : null, u.excluded, u.id);
+  });
+}
+
+export interface DocumentFilter {
+  importId?: number;
+  /** A language subtag, or null for undetermined documents. */
+  language?: string | null;
+  source?: LanguageSource;
+  /** true: only excluded; false: only included. */
+  excluded?: boolean;
+  /** Only documents whose declared language differs from the written (or the decided) one. */
+  disagreements?: boolean;
+  /** Case-insensitive substring of the text or row id. */
+  search?: string;
+  ids?: readonly number[];
+  /** Equality on a covariate value. */
+  covariate?: { name: string; value: string };
+}
+
+/** Declared language differs from what the text is written in, or from the decision kept. */
+const DISAGREES = 'declared_language IS NOT NULL AND ((written_language IS NOT NULL AND written_language <> declared_language) OR (language IS NOT NULL AND language <> declared_language))';
+
+function whereClause(studyId: number, f: DocumentFilter): { sql: string; params: unknown[] } {
+  const parts = ['study_id = ?'];
+  const params: unknown[] = [studyId];
+  if (f.importId !== undefined) (parts.push('import_id = ?'), params.push(f.importId));
+  if (f.language === null) parts.push('language IS NULL');
+  else if (f.language !== undefined) (parts.push('language = ?'), params.push(f.language));
+  if (f.source !== undefined) (parts.push('language_source = ?'), params.push(f.source));
+  if (f.excluded === true) parts.push('excluded IS NOT NULL');
+  if (f.excluded === false) parts.push('excluded IS NULL');
+  if (f.disagreements) parts.push(DISAGREES);
+  if (f.search) {
+    parts.push('(instr(unicode_lower(text), unicode_lower(?)) > 0 OR row_id = ?)');
+    params.push(f.search, f.search);
+  }
+  if (f.ids) parts.push(`id IN (SELECT value FROM json_each(?))`), params.push(JSON.stringify(f.ids));
+  if (f.covariate) (parts.push('CAST(json_extract(covariates, ?) AS TEXT) = ?'), params.push(`$."${f.covariate.name.replace(/"/g, '""')}"`, f.covariate.value));
+  return { sql: parts.join(' AND '), params };
+}
+
+/** One page of documents matching `filter`, in import order, with the total count. */
+export function listDocuments(
+  store: Store,
+  studyId: number,
+  filter: DocumentFilter = {},
+  page: { offset?: number; limit?: number } = {},
+): { total: number; rows: DocumentRecord[] } {
+  const { sql, params } = whereClause(studyId, filter);
+  const total = (store.db.prepare(`SELECT COUNT(*) AS n FROM documents WHERE ${sql}`).get(...params) as { n: number }).n;
+  const limit = Math.max(0, Math.min(page.limit ?? 50, 100_000));
+  const rows = store.db
+    .prepare(`SELECT ${COLUMNS} FROM documents WHERE ${sql} ORDER BY id LIMIT ? OFFSET ?`)
+    .all(...params, limit, Math.max(0, page.offset ?? 0)) as DocumentRow[];
+  return { total, rows: rows.map(toDocument) };
+}
+
+/** Every document of a study (or of one import), in id order, streamed. */
+export function* iterateDocuments(store: Store, studyId: number, filter: DocumentFilter = {}): Generator<DocumentRecord> {
+  const { sql, params } = whereClause(studyId, filter);
+  for (const row of store.db.prepare(`SELECT ${COLUMNS} FROM documents WHERE ${sql} ORDER BY id`).iterate(...params)) {
+    yield toDocument(row as DocumentRow);
+  }
+}
+
+export function getDocument(store: Store, id: number): DocumentRecord | undefined {
+  const row = store.db.prepare(`SELECT ${COLUMNS} FROM documents WHERE id = ?`).get(id) as DocumentRow | undefined;
+  return row ? toDocument(row) : undefined;
+}
+
+/** Included documents with tokens, in id order: the input of a fit. */
+export function listDocumentTokens(store: Store, studyId: number): DocumentTokens[] {
+  const rows = store.db
+    .prepare(
+      `SELECT id, vocabulary_language AS language, link_key, covariates, weight, tokens FROM documents
+       WHERE study_id = ? AND excluded IS NULL AND vocabulary_language IS NOT NULL AND tokens IS NOT NULL ORDER BY id`,
+    )
+    .all(studyId) as { id: number; language: string; link_key: string | null; covariates: string; weight: number; tokens: Buffer }[];
+  return rows.map((r) => ({
+    id: r.id,
+    language: r.language,
+    linkKey: r.link_key,
+    covariates: JSON.parse(r.covariates) as Record<string, string | number | null>,
+    weight: r.weight,
+    tokens: int32FromBlob(r.tokens),
+  }));
+}
+
+/** Override the language of documents (source 'overridden', confidence 1); one transaction. */
+export function overrideLanguages(store: Store, studyId: number, ids: readonly number[], language: string | null): number {
+  const stmt = store.db.prepare(
+    "UPDATE documents SET language = ?, language_source = ?, confidence = ? WHERE study_id = ? AND id = ?",
+  );
+  return inTransaction(store, () => {
+    let n = 0;
+    for (const id of ids) n += stmt.run(language, language === null ? 'undetermined' : 'overridden', language === null ? 0 : 1, studyId, id).changes;
+    return n;
+  });
+}
+
+export interface LanguageSummaryRow {
+  /** null = undetermined. */
+  readonly language: string | null;
+  readonly documents: number;
+  readonly included: number;
+  readonly bySource: Partial<Record<LanguageSource, number>>;
+  readonly meanConfidence: number;
+  /** Counts of confidence in ten bins [0,0.1) … [0.9,1]. */
+  readonly confidenceBins: number[];
+  /** Documents whose declared language differs from this decided one. */
+  /** Documents with a declared language that differs from the language written (or decided). */
+  readonly disagreements: number;
+}
+
+/** Per-language counts for the Languages page. */
+export function languageSummary(store: Store, studyId: number): LanguageSummaryRow[] {
+  const rows = store.db
+    .prepare(
+      `SELECT language, language_source AS source, MIN(CAST(confidence * 10 AS INTEGER), 9) AS bin, COUNT(*) AS n,
+         SUM(excluded IS NULL) AS included, SUM(confidence) AS conf,
+         SUM(${DISAGREES}) AS disagree
+       FROM documents WHERE study_id = ? GROUP BY language, source, bin`,
+    )
+    .all(studyId) as { language: string | null; source: LanguageSource; bin: number; n: number; included: number; conf: number; disagree: number }[];
+  const byLang = new Map<string | null, { documents: number; included: number; bySource: Partial<Record<LanguageSource, number>>; conf: number; bins: number[]; disagreements: number }>();
+  for (const r of rows) {
+    let e = byLang.get(r.language);
+    if (!e) byLang.set(r.language, (e = { documents: 0, included: 0, bySource: {}, conf: 0, bins: new Array(10).fill(0), disagreements: 0 }));
+    e.documents += r.n;
+    e.included += r.included;
+    e.bySource[r.source] = (e.bySource[r.source] ?? 0) + r.n;
+    e.conf += r.conf;
+    e.bins[Math.max(0, r.bin)] += r.n;
+    e.disagreements += r.disagree;
+  }
+  return [...byLang.entries()]
+    .map(([language, e]) => ({
+      language,
+      documents: e.documents,
+      included: e.included,
+      bySource: e.bySource,
+      meanConfidence: e.documents ? e.conf / e.documents : 0,
+      confidenceBins: e.bins,
+      disagreements: e.disagreements,
+    }))
+    .sort((a, b) => (a.language === null ? 1 : b.language === null ? -1 : b.documents - a.documents));
+}
+
+/** Counts of excluded documents per reason. */
+export function exclusionSummary(store: Store, studyId: number): Record<string, number> {
+  const rows = store.db.prepare('SELECT excluded, COUNT(*) AS n FROM documents WHERE study_id = ? AND excluded IS NOT NULL GROUP BY excluded').all(studyId) as { excluded: string; n: number }[];
+  return Object.fromEntries(rows.map((r) => [r.excluded, r.n]));
+}
+
+/** Distinct covariate names and their observed values (up to `maxLevels` per name). */
+export function covariateLevels(store: Store, studyId: number, maxLevels = 200): Record<string, { values: string[]; numeric: boolean; distinct: number }> {
+  const rows = store.db
+    .prepare(
+      `SELECT j.key AS name, CAST(j.value AS TEXT) AS value, j.type AS type, COUNT(*) AS n FROM documents d, json_each(d.covariates) j
+       WHERE d.study_id = ? AND j.value IS NOT NULL GROUP BY j.key, CAST(j.value AS TEXT) ORDER BY j.key, n DESC`,
+    )
+    .all(studyId) as { name: string; value: string; type: string; n: number }[];
+  const out: Record<string, { values: string[]; numeric: boolean; distinct: number }> = {};
+  for (const r of rows) {
+    const e = (out[r.name] ??= { values: [], numeric: true, distinct: 0 });
+    e.distinct++;
+    if (r.type !== 'integer' && r.type !== 'real') e.numeric = false;
+    if (e.values.length < maxLevels) e.values.push(r.value);
+  }
+  return out;
+}

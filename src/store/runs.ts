@@ -1,0 +1,152 @@
+// Runs: one fit each, with settings, status, live progress and error; plus checkpoints.
+import { inTransaction, now, type Store } from './database.js';
+
+export type RunStatus = 'queued' | 'running' | 'interrupted' | 'cancelled' | 'failed' | 'finished';
+
+/** Settings of a fit as the user chose them (DESIGN §3). */
+export interface RunSettings {
+  themes: number;
+  sweeps: number;
+  burnIn: number;
+  seed: number;
+  threads: number;
+  covariates: string[];
+  holdout: number;
+  /** Anything else (optimizer intervals, prior variances, sampler choice). */
+  [key: string]: unknown;
+}
+
+/** Progress as reported during a fit. */
+export interface RunProgress {
+  sweep?: number;
+  sweeps?: number;
+  tokensPerSecond?: number;
+  logLikelihoodPerToken?: number;
+  secondsLeft?: number;
+  /** Per-sweep trace of log-likelihood per token (kept short by the writer). */
+  trace?: number[];
+  phase?: string;
+  [key: string]: unknown;
+}
+
+export interface Run {
+  readonly id: number;
+  readonly studyId: number;
+  readonly name: string;
+  readonly settings: RunSettings;
+  readonly status: RunStatus;
+  readonly progress: RunProgress;
+  readonly error: string | null;
+  readonly createdAt: string;
+  readonly startedAt: string | null;
+  readonly finishedAt: string | null;
+}
+
+interface RunRow {
+  id: number;
+  study_id: number;
+  name: string;
+  settings: string;
+  status: RunStatus;
+  progress: string;
+  error: string | null;
+  created_at: string;
+  started_at: string | null;
+  finished_at: string | null;
+}
+
+function toRun(r: RunRow): Run {
+  return {
+    id: r.id,
+    studyId: r.study_id,
+    name: r.name,
+    settings: JSON.parse(r.settings) as RunSettings,
+    status: r.status,
+    progress: JSON.parse(r.progress) as RunProgress,
+    error: r.error,
+    createdAt: r.created_at,
+    startedAt: r.started_at,
+    finishedAt: r.finished_at,
+  };
+}
+
+export function createRun(store: Store, input: { studyId: number; name: string; settings: RunSettings; status?: RunStatus }): Run {
+  const info = store.db
+    .prepare('INSERT INTO runs (study_id, name, settings, status, created_at) VALUES (?, ?, ?, ?, ?)')
+    .run(input.studyId, input.name, JSON.stringify(input.settings), input.status ?? 'queued', now());
+  return getRun(store, Number(info.lastInsertRowid))!;
+}
+
+export function getRun(store: Store, id: number): Run | undefined {
+  const row = store.db.prepare('SELECT * FROM runs WHERE id = ?').get(id) as RunRow | undefined;
+  return row ? toRun(row) : undefined;
+}
+
+export function getRunByName(store: Store, studyId: number, name: string): Run | undefined {
+  const row = store.db.prepare('SELECT * FROM runs WHERE study_id = ? AND name = ?').get(studyId, name) as RunRow | undefined;
+  return row ? toRun(row) : undefined;
+}
+
+export function listRuns(store: Store, studyId: number): Run[] {
+  return (store.db.prepare('SELECT * FROM runs WHERE study_id = ? ORDER BY id DESC').all(studyId) as RunRow[]).map(toRun);
+}
+
+/** Runs in any of `statuses`, across studies, oldest first (the job queue's view). */
+export function listRunsByStatus(store: Store, statuses: readonly RunStatus[]): Run[] {
+  return (store.db.prepare('SELECT * FROM runs WHERE status IN (SELECT value FROM json_each(?)) ORDER BY id').all(JSON.stringify(statuses)) as RunRow[]).map(toRun);
+}
+
+/** A run name not yet used in the study: `base`, `base-2`, `base-3`… */
+export function uniqueRunName(store: Store, studyId: number, base: string): string {
+  let name = base;
+  for (let i = 2; getRunByName(store, studyId, name); i++) name = `${base}-${i}`;
+  return name;
+}
+
+/** Change status; sets started_at on 'running' (first time) and finished_at on terminal states. */
+export function setRunStatus(store: Store, id: number, status: RunStatus, error: string | null = null): void {
+  const t = now();
+  const terminal = status === 'finished' || status === 'failed' || status === 'cancelled';
+  store.db
+    .prepare(
+      `UPDATE runs SET status = ?, error = ?, started_at = CASE WHEN ? AND started_at IS NULL THEN ? ELSE started_at END,
+       finished_at = CASE WHEN ? THEN ? ELSE NULL END WHERE id = ?`,
+    )
+    .run(status, error, status === 'running' ? 1 : 0, t, terminal ? 1 : 0, t, id);
+}
+
+export function setRunProgress(store: Store, id: number, progress: RunProgress): void {
+  store.db.prepare('UPDATE runs SET progress = ? WHERE id = ?').run(JSON.stringify(progress), id);
+}
+
+/** On start-up: every run left 'running' by a stopped process becomes 'interrupted'. */
+export function markRunningAsInterrupted(store: Store): number {
+  return store.db.prepare("UPDATE runs SET status = 'interrupted' WHERE status = 'running'").run().changes;
+}
+
+export function renameRun(store: Store, id: number, name: string): void {
+  store.db.prepare('UPDATE runs SET name = ? WHERE id = ?').run(name, id);
+}
+
+export function deleteRun(store: Store, id: number): void {
+  inTransaction(store, () => store.db.prepare('DELETE FROM runs WHERE id = ?').run(id));
+}
+
+/** Save a checkpoint; keeps only the newest `keep` checkpoints of the run (one transaction). */
+export function saveCheckpoint(store: Store, runId: number, sweep: number, bytes: Uint8Array, keep = 2): void {
+  inTransaction(store, () => {
+    store.db.prepare('INSERT OR REPLACE INTO run_checkpoints (run_id, sweep, bytes, created_at) VALUES (?, ?, ?, ?)').run(runId, sweep, Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength), now());
+    store.db
+      .prepare('DELETE FROM run_checkpoints WHERE run_id = ? AND sweep NOT IN (SELECT sweep FROM run_checkpoints WHERE run_id = ? ORDER BY sweep DESC LIMIT ?)')
+      .run(runId, runId, Math.max(1, keep));
+  });
+}
+
+export function latestCheckpoint(store: Store, runId: number): { sweep: number; bytes: Uint8Array } | undefined {
+  const row = store.db.prepare('SELECT sweep, bytes FROM run_checkpoints WHERE run_id = ? ORDER BY sweep DESC LIMIT 1').get(runId) as { sweep: number; bytes: Buffer } | undefined;
+  return row ? { sweep: row.sweep, bytes: new Uint8Array(row.bytes) } : undefined;
+}
+
+export function clearCheckpoints(store: Store, runId: number): void {
+  store.db.prepare('DELETE FROM run_checkpoints WHERE run_id = ?').run(runId);
+}

@@ -1,0 +1,6 @@
+// Public surface of language identification.
+export { identifyLanguages, languageDisagreements } from './identify.js';
+export type { IdentifyOptions, LanguageDisagreement } from './identify.js';
+export { LANGUAGES, languageInfo, languageKey } from './languages.js';
+export type { LanguageInfo, Script } from './languages.js';
+export { countScripts } from './scripts.js';

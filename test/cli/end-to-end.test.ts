@@ -1,0 +1,153 @@
+// The whole command-line journey on a small invented survey (test/services/survey-fixture.ts):
+// import → languages → vocabulary → fit → export → apply → checks → contrasts.
+import { readFileSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { tempDir } from '../store/helpers.js';
+import { FIXTURE_FLAGS, surveyCsv, surveyRows } from '../services/survey-fixture.js';
+import { cli } from './cli-harness.js';
+
+const BOM = [0xef, 0xbb, 0xbf];
+let t: ReturnType<typeof tempDir>;
+let data: string;
+
+function csvText(path: string): { bom: boolean; lines: string[] } {
+  const bytes = readFileSync(path);
+  const bom = bytes[0] === BOM[0] && bytes[1] === BOM[1] && bytes[2] === BOM[2];
+  return { bom, lines: bytes.subarray(bom ? 3 : 0).toString('utf8').split('\r\n').filter((l) => l !== '') };
+}
+
+beforeAll(() => {
+  t = tempDir('themata-cli-');
+  data = join(t.dir, 'data');
+  writeFileSync(join(t.dir, 'survey.csv'), surveyCsv(surveyRows(90)));
+  writeFileSync(join(t.dir, 'wave2.csv'), surveyCsv(surveyRows(20).map((r) => ({ ...r, id: `new-${r.id}`, link: '' }))));
+});
+afterAll(() => t.cleanup());
+
+describe('themata command line, end to end', () => {
+  it('imports a CSV and prints the summary', async () => {
+    const r = await cli(['--data', data, 'import', join(t.dir, 'survey.csv'), '--study', 'Test survey', '--languages', 'en,es', ...FIXTURE_FLAGS]);
+    expect(r.stderr).toBe('');
+    expect(r.code).toBe(0);
+    expect(r.stdout).toMatch(/Imported survey\.csv into study "Test survey" \(new study\): 90 rows, 90 answers\./);
+    expect(r.stdout).toMatch(/Answers per language: (en|es) \d+, (en|es) \d+/);
+    expect(r.stdout).toMatch(/encoding assumed UTF-8/);
+    expect(r.stdout).toMatch(/Vocabulary of the study: en \d+ words, es \d+ words/);
+  });
+
+  it('lists language decisions as CSV and top words of a language', async () => {
+    const out = join(t.dir, 'languages.csv');
+    const r = await cli(['--data', data, 'languages', '--study', 'Test survey', '--out', out]);
+    expect(r.code).toBe(0);
+    const { bom, lines } = csvText(out);
+    expect(bom).toBe(true);
+    expect(lines[0]).toBe('id,question,language,source,confidence');
+    expect(lines).toHaveLength(91);
+    expect(lines).toContain("'-3,answer,es,declared,1"); // formula guard on the id "-3"
+    const v = await cli(['--data', data, 'vocabulary', '--study', 'Test survey', '--lang', 'en', '--top', '5']);
+    expect(v.code).toBe(0);
+    expect(v.stdout.split('\n')[1]).toBe('rank\tword\tstem\tcount\tanswers');
+    expect(v.stdout.trim().split('\n')).toHaveLength(7);
+  });
+
+  it('fits a small model and prints one JSON line with the run name and diagnostics', async () => {
+    const r = await cli(['--data', data, 'fit', '--study', 'Test survey', '--themes', '3', '--sweeps', '40', '--burn-in', '10', '--seed', '5', '--covariate', 'region', '--holdout', '0.2', '--name', 'small']);
+    expect(r.stderr).toBe('');
+    expect(r.code).toBe(0);
+    const lines = r.stdout.trim().split('\n');
+    expect(lines).toHaveLength(1);
+    const d = JSON.parse(lines[0]);
+    expect(d).toMatchObject({ run: 'small', themes: 3, sweeps: 40, languages: ['en', 'es'] });
+    expect(d.heldOutDocuments).toBeGreaterThan(0);
+    expect(d.logLikelihoodTrace.last).toBeGreaterThan(d.logLikelihoodTrace.first);
+  });
+
+  it('exports the five files with their headers, a BOM and the formula-injection guard', async () => {
+    const dir = join(t.dir, 'export');
+    const r = await cli(['--data', data, 'export', '--study', 'Test survey', '--run', 'small', '--out', dir, '--draws', '200']);
+    expect(r.stderr).toBe('');
+    expect(r.code).toBe(0);
+    expect(r.stdout.trim().split('\n').map((p) => p.split(/[\\/]/).pop())).toEqual(['answers-by-theme.csv', 'theme-words.csv', 'theme-shares-by-group.csv', 'codebook.json', 'small.themata-run']);
+    const answers = csvText(join(dir, 'answers-by-theme.csv'));
+    expect(answers.bom).toBe(true);
+    expect(answers.lines[0]).toBe('id,question,region,age,language,link key,weight,Theme 1,Theme 2,Theme 3,dominant theme');
+    expect(answers.lines).toHaveLength(91);
+    // No cell may start with = + - @ tab or CR: the fixture has ids "-3" and regions "=Coast", "@Hills".
+    const cells = answers.lines.slice(1).flatMap((l) => l.split(','));
+    expect(cells.filter((c) => /^[=+\-@\t\r]/.test(c))).toEqual([]);
+    expect(cells).toContain("'=Coast");
+    expect(cells).toContain("'@Hills");
+    // Every included answer has shares summing to 1, held-out ones too (fold-in).
+    const withShares = answers.lines.slice(1).map((l) => l.split(',')).filter((c) => c[7] !== '');
+    expect(withShares.length).toBe(90);
+    for (const c of withShares) expect(Number(c[7]) + Number(c[8]) + Number(c[9])).toBeCloseTo(1, 4);
+    expect(csvText(join(dir, 'theme-words.csv')).lines[0]).toBe('theme,language,rank,word,stem,probability,exclusivity');
+    const shares = csvText(join(dir, 'theme-shares-by-group.csv'));
+    expect(shares.lines[0]).toBe('covariate,level,theme,share,low,high,n,effective n');
+    const regionRows = shares.lines.filter((l) => l.startsWith('region,'));
+    expect(regionRows).toHaveLength(4 * 3);
+    for (const l of regionRows) {
+      const c = l.split(',');
+      expect(Number(c[4])).toBeLessThanOrEqual(Number(c[3]));
+      expect(Number(c[5])).toBeGreaterThanOrEqual(Number(c[3]));
+    }
+    const codebook = JSON.parse(readFileSync(join(dir, 'codebook.json'), 'utf8'));
+    expect(codebook.themes).toHaveLength(3);
+    expect(Object.keys(codebook.themes[0].words)).toEqual(['en', 'es']);
+  });
+
+  it('applies the run to a new file, from the database and from the saved bundle alone', async () => {
+    const out1 = join(t.dir, 'coded.csv');
+    const r1 = await cli(['--data', data, 'apply', '--study', 'Test survey', '--run', 'small', join(t.dir, 'wave2.csv'), '--out', out1]);
+    expect(r1.code).toBe(0);
+    const coded = csvText(out1);
+    expect(coded.bom).toBe(true);
+    expect(coded.lines[0]).toBe('id,question,region,age,language,link key,weight,Theme 1,Theme 2,Theme 3,dominant theme');
+    expect(coded.lines).toHaveLength(21);
+    expect(r1.stderr).toMatch(/Coded 20 of 20 answers/);
+    const out2 = join(t.dir, 'coded-from-bundle.csv');
+    const r2 = await cli(['--data', join(t.dir, 'no-database'), 'apply', '--bundle', join(t.dir, 'export', 'small.themata-run'), join(t.dir, 'wave2.csv'), '--out', out2, '--text', 'answer', '--id', 'id', '--covariate', 'region']);
+    expect(r2.code).toBe(0);
+    expect(csvText(out2).lines[0]).toBe('id,question,region,language,link key,weight,Theme 1,Theme 2,Theme 3,dominant theme');
+  });
+
+  it('reports checks and contrasts', async () => {
+    const c = await cli(['--data', data, 'checks', '--study', 'Test survey', '--run', 'small', '--json']);
+    expect(c.code).toBe(0);
+    const checks = JSON.parse(c.stdout);
+    expect(checks.perplexity.perplexity).toBeGreaterThan(1);
+    expect(checks.coherence.themes.length).toBe(6);
+    const out = join(t.dir, 'by-region.csv');
+    const k = await cli(['--data', data, 'contrasts', '--study', 'Test survey', '--run', 'small', '--by', 'region', '--out', out, '--draws', '200']);
+    expect(k.code).toBe(0);
+    expect(csvText(out).lines[0]).toBe('covariate,level,theme,share,low,high,n,effective n');
+  });
+
+  it('compares numbers of themes over seeds', async () => {
+    const r = await cli(['--data', data, 'compare-k', '--study', 'Test survey', '--themes', '2,3', '--seeds', '2', '--sweeps', '20', '--json']);
+    expect(r.code).toBe(0);
+    const rows = JSON.parse(r.stdout.trim().split('\n').pop()!);
+    expect(rows.map((x: { K: number; runs: number }) => [x.K, x.runs])).toEqual([[2, 2], [3, 2]]);
+    for (const row of rows) {
+      expect(row.perplexity).toBeGreaterThan(1);
+      expect(row.stability).toBeGreaterThan(0);
+      expect(row.stability).toBeLessThanOrEqual(1 + 1e-9);
+    }
+  });
+
+  it('answers a user error with one clear line on stderr and exit code 2', async () => {
+    const r = await cli(['--data', data, 'import', join(t.dir, 'survey.csv'), '--study', 'Other', '--text', 'nope']);
+    expect(r.code).toBe(2);
+    expect(r.stderr.trim().split('\n')).toHaveLength(1);
+    expect(r.stderr).toMatch(/nope/);
+    const missing = await cli(['--data', data, 'fit', '--study', 'No such study', '--themes', '3']);
+    expect(missing.code).toBe(2);
+    expect(missing.stderr).toMatch(/no study called "No such study"/);
+    const badRun = await cli(['--data', data, 'export', '--study', 'Test survey', '--run', 'nope', '--out', t.dir]);
+    expect(badRun.code).toBe(2);
+    const usage = await cli(['--data', data, 'fit', '--study', 'Test survey']);
+    expect(usage.code).toBe(2);
+    expect(usage.stderr).toMatch(/--themes/);
+  });
+});

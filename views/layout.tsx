@@ -1,0 +1,98 @@
+// The page frame: header with where-am-I links, the study and run tabs, and the scripts (all
+// served by Themata itself; no inline script, so the content security policy can forbid it).
+import type { Child } from 'hono/jsx';
+
+export interface PageFrame {
+  readonly title: string;
+  readonly user: { readonly name: string; readonly local: boolean };
+  readonly csrf: string;
+  readonly study?: { readonly id: number; readonly name: string };
+  readonly run?: { readonly id: number; readonly name: string; readonly status: string };
+  /** Which tab is current: 'data' | 'languages' | … | 'themes' | … */
+  readonly active?: string;
+}
+
+const STUDY_TABS = [
+  ['data', 'Data'],
+  ['languages', 'Languages'],
+  ['vocabulary', 'Vocabulary'],
+  ['runs', 'Runs'],
+] as const;
+
+const RUN_TABS = [
+  ['themes', 'Themes'],
+  ['contrasts', 'Contrasts'],
+  ['answers', 'Answers'],
+  ['checks', 'Checks'],
+  ['export', 'Export'],
+  ['apply', 'Apply'],
+] as const;
+
+/** Hidden CSRF field for ordinary (non-htmx) forms. */
+export function CsrfField(props: { csrf: string }) {
+  return <input type="hidden" name="_csrf" value={props.csrf} />;
+}
+
+export function Layout(props: PageFrame & { children: Child }) {
+  const s = props.study;
+  const r = props.run;
+  return (
+    <html lang="en">
+      <head>
+        <meta charset="utf-8" />
+        <meta name="viewport" content="width=device-width, initial-scale=1" />
+        <meta name="htmx-config" content='{"includeIndicatorStyles":false,"allowEval":false,"allowScriptTags":false}' />
+        <title>{props.title} · Themata</title>
+        <link rel="stylesheet" href="/assets/app.css" />
+        <script src="/assets/htmx.min.js" defer></script>
+        <script src="/assets/htmx-sse.js" defer></script>
+        <script src="/assets/app.js" defer></script>
+      </head>
+      <body hx-headers={JSON.stringify({ 'X-CSRF-Token': props.csrf })}>
+        <header class="top">
+          <nav class="crumbs" aria-label="Where you are">
+            <a href="/" class="brand">Themata</a>
+            {s && (
+              <>
+                <span aria-hidden="true">›</span>
+                <a href={`/studies/${s.id}/data`}>{s.name}</a>
+              </>
+            )}
+            {s && r && (
+              <>
+                <span aria-hidden="true">›</span>
+                <a href={`/studies/${s.id}/runs/${r.id}`}>{r.name}</a>
+              </>
+            )}
+          </nav>
+          <div class="who">
+            {props.user.local ? (
+              <span title="No accounts exist and the server only listens on this computer">Local use</span>
+            ) : (
+              <form method="post" action="/logout" class="inline">
+                <CsrfField csrf={props.csrf} />
+                <span>{props.user.name}</span> <button type="submit" class="link">Sign out</button>
+              </form>
+            )}
+          </div>
+        </header>
+        {s && (
+          <nav class="tabs" aria-label="Study">
+            {STUDY_TABS.map(([key, label]) => (
+              <a href={`/studies/${s.id}/${key}`} aria-current={props.active === key && !r ? 'page' : undefined}>{label}</a>
+            ))}
+          </nav>
+        )}
+        {s && r && r.status === 'finished' && (
+          <nav class="tabs run-tabs" aria-label="Run">
+            {RUN_TABS.map(([key, label]) => (
+              <a href={`/studies/${s.id}/runs/${r.id}/${key}`} aria-current={props.active === key ? 'page' : undefined}>{label}</a>
+            ))}
+          </nav>
+        )}
+        <main id="main">{props.children}</main>
+        <footer class="foot">Themata · themes across languages and groups</footer>
+      </body>
+    </html>
+  );
+}

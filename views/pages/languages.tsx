@@ -1,0 +1,164 @@
+// Languages: which language each answer was taken to be written in, how sure Themata is, and
+// where to correct it — one answer at a time or many at once.
+import { Histogram } from '../charts/index.js';
+import { count, Notice, Pager, percent } from '../components.js';
+import { CsrfField, Layout, type PageFrame } from '../layout.js';
+
+export interface LanguageRow {
+  readonly language: string | null;
+  readonly documents: number;
+  readonly included: number;
+  readonly bySource: Partial<Record<string, number>>;
+  readonly meanConfidence: number;
+  readonly disagreements: number;
+}
+
+export interface AnswerRow {
+  readonly id: number;
+  readonly rowId: string;
+  readonly text: string;
+  readonly language: string | null;
+  readonly declared: string | null;
+  readonly source: string;
+  readonly confidence: number;
+  readonly excluded: string | null;
+}
+
+export interface LanguagesPageProps {
+  readonly frame: PageFrame;
+  readonly studyId: number;
+  readonly rows: readonly LanguageRow[];
+  readonly bins: readonly number[];
+  readonly show: string;
+  readonly filterLanguage: string;
+  readonly answers: readonly AnswerRow[];
+  readonly total: number;
+  readonly offset: number;
+  readonly limit: number;
+  readonly choices: readonly string[];
+  readonly canEdit: boolean;
+  readonly message?: string;
+}
+
+const SOURCES = ['declared', 'detected', 'adapted', 'overridden', 'undetermined'] as const;
+const SOURCE_HELP: Record<string, string> = {
+  declared: 'from the language column of the file',
+  detected: 'recognised from the text',
+  adapted: 're-decided using words typical of this study',
+  overridden: 'set by hand',
+  undetermined: 'too little evidence to decide',
+};
+
+export function LanguagesPage(props: LanguagesPageProps) {
+  const base = `/studies/${props.studyId}/languages`;
+  const views: [string, string][] = [
+    ['undetermined', 'Undetermined'],
+    ['disagreements', 'Declared ≠ written'],
+    ['all', 'All answers'],
+  ];
+  return (
+    <Layout {...props.frame}>
+      <h1>Languages</h1>
+      {props.message && <Notice kind="ok">{props.message}</Notice>}
+      <table class="list" id="language-counts">
+        <thead>
+          <tr>
+            <th scope="col">Language</th>
+            <th scope="col" class="num">Answers</th>
+            <th scope="col" class="num">Used in runs</th>
+            {SOURCES.map((s) => <th scope="col" class="num" title={SOURCE_HELP[s]}>{s[0].toUpperCase() + s.slice(1)}</th>)}
+            <th scope="col" class="num">Mean confidence</th>
+            <th scope="col" class="num">Declared differently</th>
+          </tr>
+        </thead>
+        <tbody>
+          {props.rows.map((r) => (
+            <tr>
+              <th scope="row">{r.language ?? 'undetermined'}</th>
+              <td class="num">{count(r.documents)}</td>
+              <td class="num">{count(r.included)}</td>
+              {SOURCES.map((s) => <td class="num">{count(r.bySource[s] ?? 0)}</td>)}
+              <td class="num">{percent(r.meanConfidence, 0)}</td>
+              <td class="num">{count(r.disagreements)}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+      <p class="hint">Sources: {SOURCES.map((s) => `${s} = ${SOURCE_HELP[s]}`).join('; ')}.</p>
+      <Histogram
+        caption="How sure the language decision is, over all answers (1 = certain). Answers at the low end are worth a look."
+        xLabel="Confidence"
+        bins={props.bins.map((n, i) => ({ x0: i / 10, x1: (i + 1) / 10, count: n }))}
+      />
+      <h2>Review answers</h2>
+      <nav class="subtabs" aria-label="Which answers">
+        {views.map(([key, label]) => (
+          <a href={`${base}?show=${key}`} aria-current={props.show === key ? 'page' : undefined}>{label}</a>
+        ))}
+      </nav>
+      <form method="get" action={base} class="row">
+        <input type="hidden" name="show" value={props.show} />
+        <label>
+          Language
+          <select name="language">
+            <option value="">any</option>
+            {props.choices.map((l) => <option value={l} selected={props.filterLanguage === l}>{l}</option>)}
+          </select>
+        </label>
+        <button type="submit">Show</button>
+      </form>
+      <form method="post" action={`${base}/override`} id="override-form">
+        <CsrfField csrf={props.frame.csrf} />
+        <input type="hidden" name="back" value={`${base}?show=${props.show}&language=${props.filterLanguage}&offset=${props.offset}`} />
+        <table class="list answers">
+          <thead>
+            <tr>
+              {props.canEdit && <th scope="col"><span class="sr">Tick</span></th>}
+              <th scope="col">Row</th>
+              <th scope="col">Answer</th>
+              <th scope="col">Declared</th>
+              <th scope="col">Decided</th>
+              <th scope="col" class="num">Confidence</th>
+              {props.canEdit && <th scope="col">Change to</th>}
+            </tr>
+          </thead>
+          <tbody>
+            {props.answers.map((a) => (
+              <tr>
+                {props.canEdit && <td><input type="checkbox" name="ids" value={String(a.id)} aria-label={`Tick answer ${a.rowId}`} /></td>}
+                <td>{a.rowId}</td>
+                <td class="answer" dir="auto">{a.text}{a.excluded && <span class="tag">{a.excluded}</span>}</td>
+                <td>{a.declared ?? '—'}</td>
+                <td>{a.language ?? 'undetermined'} <span class="hint">({a.source})</span></td>
+                <td class="num">{percent(a.confidence, 0)}</td>
+                {props.canEdit && (
+                  <td class="row">
+                    <select name={`lang-${a.id}`} aria-label={`New language for answer ${a.rowId}`}>
+                      {props.choices.map((l) => <option value={l} selected={l === a.language}>{l}</option>)}
+                      <option value="-">undetermined</option>
+                    </select>
+                    <button type="submit" name="one" value={String(a.id)} class="small">Set</button>
+                  </td>
+                )}
+              </tr>
+            ))}
+          </tbody>
+        </table>
+        {props.answers.length === 0 && <Notice>No answers in this list.</Notice>}
+        {props.canEdit && props.answers.length > 0 && (
+          <p class="row">
+            <label>
+              Set every ticked answer to
+              <select name="bulk">
+                {props.choices.map((l) => <option value={l}>{l}</option>)}
+                <option value="-">undetermined</option>
+              </select>
+            </label>
+            <button type="submit" name="many" value="1">Apply to ticked answers</button>
+          </p>
+        )}
+      </form>
+      <Pager base={base} query={{ show: props.show, language: props.filterLanguage }} offset={props.offset} limit={props.limit} total={props.total} />
+    </Layout>
+  );
+}
