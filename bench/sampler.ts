@@ -1,10 +1,12 @@
 // `npm run bench -- --only sampler [--quick] [--json] [--full]` (issue #5).
 //
 // On one seeded synthetic corpus (bench/sampler/corpus.ts; 50,000 link groups ≈ 1.15 M tokens,
-// --quick 10,000 groups) and for K ∈ {20, 100, 500}, measured side by side in one run from the
+// --quick 8,000 groups) and for K ∈ {20, 100, 500}, measured side by side in one run from the
 // same random start:
 //   floor      tokens/s of the loop that only moves counts (bench/sampler/floor.ts)
-//   reference  tokens/s of the plain O(K) sampler over `qualitySweeps` sweeps
+//   reference  tokens/s of the plain O(K) sampler; every sampler's tokens/s is taken over the
+//              second half of the `qualitySweeps` sweeps (steady state); the first half, from the
+//              random start, is reported as `firstHalf` and is inside time to quality
 //   fast1      tokens/s of the fast exact sampler (SparseLDA buckets) on one thread
 //   fastAll    tokens/s of the AD-LDA parallel sampler on every core
 //   time to quality: seconds until the joint log-likelihood per token first reaches the value
@@ -21,7 +23,7 @@ import { runFullCase } from './sampler/full-case.js';
 
 export async function runBench(options: BenchOptions): Promise<Record<string, unknown>> {
   const { log } = options;
-  const groups = options.quick ? 10_000 : 50_000;
+  const groups = options.quick ? 8_000 : 50_000;
   const qualitySweeps = options.quick ? 25 : 200;
   const threads = availableParallelism();
   const built = benchCorpus(groups, 20260501);
@@ -48,6 +50,14 @@ export async function runBench(options: BenchOptions): Promise<Record<string, un
     timeToQualityRatioAll: rows.map((r) => r.ttqFastAll / r.ttqReference),
     timeToQualitySeconds: { reference: pick('ttqReference'), fast1: pick('ttqFast1'), fastAll: pick('ttqFastAll') },
     sweepsToQuality: { reference: qualitySweeps, fast1: pick('sweepsFast1'), fastAll: pick('sweepsFastAll') },
+    firstHalf: { reference: pick('referenceEarly'), fast1: pick('fast1Early'), fastAll: pick('fastAllEarly') },
+    cpuTime: {
+      floor: pick('floorCpu'),
+      reference: pick('referenceCpu'),
+      fast1: pick('fast1Cpu'),
+      fastOverReference: rows.map((r) => r.fast1Cpu / r.referenceCpu),
+      fastOverFloor: rows.map((r) => r.fast1Cpu / r.floorCpu),
+    },
     bytesPerToken: pick('bytesPerToken'),
     tableBytes: pick('tableBytes'),
     tokens: N,
@@ -65,6 +75,8 @@ export async function runBench(options: BenchOptions): Promise<Record<string, un
         `${(result.timeToQualityRatio as number[])[i].toFixed(3).padStart(12)}  ${r.bytesPerToken.toFixed(2).padStart(11)}`,
     );
   });
+  log('per CPU second (single-threaded loops; robust when other programs share the cores):');
+  rows.forEach((r) => log(`K=${r.K}: floor ${(r.floorCpu / 1e6).toFixed(2)} M, reference ${(r.referenceCpu / 1e6).toFixed(2)} M, fast1 ${(r.fast1Cpu / 1e6).toFixed(2)} M tokens/CPU-s; fast/ref ${(r.fast1Cpu / r.referenceCpu).toFixed(2)}, fast/floor ${(r.fast1Cpu / r.floorCpu).toFixed(2)}`));
   log(`peak RSS: ${(result.peakRssMB as number).toFixed(0)} MB`);
   if (options.full) result.full = await runFullCase(log);
   return result;

@@ -7,9 +7,11 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { createRequire } from 'node:module';
 import { demoCsv, DEMO_COLUMNS, generateDemo } from '../demo/index.js';
-import { createFitRun, importFile, runFitJob } from '../src/services/index.js';
-import { startServer, type RunningServer } from '../src/server/index.js';
-import { openStore, setRunStatus } from '../src/store/index.js';
+import { JobQueue } from '../src/jobs/index.js';
+import { createFitRun, importFile } from '../src/services/index.js';
+import { spawn, type ChildProcess } from 'node:child_process';
+import { createServer } from 'node:net';
+import { getRun, openStore } from '../src/store/index.js';
 
 import type { BenchOptions } from './run.js';
 
@@ -27,7 +29,8 @@ const autocannon = createRequire(import.meta.url)('autocannon') as Autocannon;
 
 export interface BenchStudy {
   readonly dir: string;
-  readonly server: RunningServer;
+  /** The workbench, served by `themata serve` in its own process (as in production). */
+  readonly server: { readonly url: string; readonly process: ChildProcess };
   readonly studyId: number;
   readonly runId: number;
   readonly fitSeconds: number;
@@ -45,13 +48,16 @@ export async function buildBenchStudy(options: { answers: number; themes: number
   const summary = await importFile(store, { study: 'Bench study', bytes, fileName: 'bench.csv', mapping: DEMO_COLUMNS });
   options.log(`imported in ${((performance.now() - t0) / 1000).toFixed(1)} s`);
   const run = createFitRun(store, summary.studyId, { themes: options.themes, sweeps: options.sweeps, burnIn: Math.floor(options.sweeps / 4), covariates: ['branch_region'], holdout: 0.05 });
+  // Fitted through the job queue like the workbench does, so the run's summaries are stored too.
   t0 = performance.now();
-  await runFitJob({ store, runId: run.id });
+  const queue = new JobQueue({ store });
+  queue.start();
+  await queue.idle();
+  await queue.close();
   const fitSeconds = (performance.now() - t0) / 1000;
-  setRunStatus(store, run.id, 'finished');
-  options.log(`fitted K=${options.themes}, ${options.sweeps} sweeps in ${fitSeconds.toFixed(1)} s`);
+  options.log(`fitted K=${options.themes}, ${options.sweeps} sweeps, with summaries, in ${fitSeconds.toFixed(1)} s (${getRun(store, run.id)?.status}${getRun(store, run.id)?.error ? `: ${getRun(store, run.id)?.error}` : ""})`);
   store.close();
-  const server = await startServer({ host: '127.0.0.1', port: 0, dataDir: dir });
+  const server = await serveInChild(dir);
   const base = `/studies/${summary.studyId}/runs/${run.id}`;
   return {
     dir,
@@ -66,10 +72,43 @@ export async function buildBenchStudy(options: { answers: number; themes: number
       answers: `${base}/answers?language=en`,
     },
     async close() {
-      await server.close();
+      await new Promise<void>((resolve) => {
+        server.process.once('exit', () => resolve());
+        server.process.kill('SIGTERM');
+      });
       rmSync(dir, { recursive: true, force: true });
     },
   };
+}
+
+function freePort(): Promise<number> {
+  return new Promise((resolve, reject) => {
+    const probe = createServer();
+    probe.once('error', reject);
+    probe.listen(0, '127.0.0.1', () => {
+      const { port } = probe.address() as { port: number };
+      probe.close(() => resolve(port));
+    });
+  });
+}
+
+/** Start `themata serve` on a free loopback port and wait until it says where it listens. */
+async function serveInChild(dataDir: string): Promise<{ url: string; process: ChildProcess }> {
+  const port = await freePort();
+  const bin = new URL('../bin/themata.mjs', import.meta.url);
+  const child = spawn(process.execPath, [bin.pathname, '--data', dataDir, 'serve', '--port', String(port)], { stdio: ['ignore', 'pipe', 'pipe'] });
+  const url = await new Promise<string>((resolve, reject) => {
+    let seen = '';
+    const onData = (chunk: Buffer) => {
+      seen += chunk.toString();
+      const m = seen.match(/serving at (http:\/\/\S+?\/)(\s|$)/);
+      if (m) resolve(m[1]);
+    };
+    child.stdout!.on('data', onData);
+    child.stderr!.on('data', onData);
+    child.once('exit', (code) => reject(new Error(`themata serve stopped (exit ${code}): ${seen}`)));
+  });
+  return { url, process: child };
 }
 
 function percentile(sorted: number[], p: number): number {

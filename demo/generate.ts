@@ -10,10 +10,10 @@ import { DEFAULT_ANSWERS, DEFAULT_SEED, demoItems, PER_ROW_TRUTH_LIMIT, TruthSum
 import { demoTruthJson } from './truth-json.js';
 import { demoXlsx } from './xlsx.js';
 import type { DemoRow, RowTruth } from './types.js';
+import { DEMO_FILE_NAMES } from './index.js';
 
 export { generateDemo } from './generator.js';
 
-export const DEMO_FILES = { csv: 'library-survey.csv', xlsx: 'library-survey.xlsx', truth: 'truth.json' } as const;
 /** XLSX is only written up to this size (exceljs builds the workbook in memory). */
 export const XLSX_ROW_LIMIT = 100_000;
 /** Folder of the committed demo files. */
@@ -33,7 +33,7 @@ export async function writeDemoFiles(dir: string, options: DemoOptions, withXlsx
   const rows: DemoRow[] = [];
   const truthRows: RowTruth[] = [];
   const summary = new TruthSummary();
-  const csvPath = join(dir, DEMO_FILES.csv);
+  const csvPath = join(dir, DEMO_FILE_NAMES.csv);
   const fd = openSync(csvPath, 'w');
   let chunk = UTF8_BOM + csvHeader();
   try {
@@ -53,25 +53,25 @@ export async function writeDemoFiles(dir: string, options: DemoOptions, withXlsx
   }
   const files = [csvPath];
   const skipped: string[] = [];
-  const truthPath = join(dir, DEMO_FILES.truth);
+  const truthPath = join(dir, DEMO_FILE_NAMES.truth);
   writeFileSync(truthPath, demoTruthJson({ ...truthHead(options, summary), rows: keepTruth ? truthRows : null }));
   files.push(truthPath);
-  if (!keepTruth) skipped.push(`per-answer detail in ${DEMO_FILES.truth} (more than ${PER_ROW_TRUTH_LIMIT} answers; the summary is kept)`);
+  if (!keepTruth) skipped.push(`per-answer detail in ${DEMO_FILE_NAMES.truth} (more than ${PER_ROW_TRUTH_LIMIT} answers; the summary is kept)`);
   if (withXlsx && keepRows) {
-    const xlsxPath = join(dir, DEMO_FILES.xlsx);
+    const xlsxPath = join(dir, DEMO_FILE_NAMES.xlsx);
     writeFileSync(xlsxPath, await demoXlsx(rows));
     files.push(xlsxPath);
   } else if (withXlsx) {
-    skipped.push(`${DEMO_FILES.xlsx} (more than ${XLSX_ROW_LIMIT} answers)`);
+    skipped.push(`${DEMO_FILE_NAMES.xlsx} (more than ${XLSX_ROW_LIMIT} answers)`);
   }
   return { files, rows: summary.counts.rows, skipped };
 }
 
-function positiveInteger(name: string) {
+function wholeNumber(name: string, min: number, max: number) {
   return (value: string): number => {
     const n = Number(value);
-    if (!Number.isInteger(n) || n < 1) {
-      console.error(`${name} must be a whole number of at least 1; got "${value}".`);
+    if (!Number.isInteger(n) || n < min || n > max) {
+      console.error(`${name} must be a whole number from ${min} to ${max}; got "${value}".`);
       process.exit(2);
     }
     return n;
@@ -82,8 +82,8 @@ async function main(argv: string[]): Promise<void> {
   const opts = new Command()
     .name('demo/generate.ts')
     .description('Write the invented library survey demo study and its planted truth.')
-    .option('--answers <n>', 'number of rows (answers and translations)', positiveInteger('--answers'), DEFAULT_ANSWERS)
-    .option('--seed <s>', 'random seed', positiveInteger('--seed'), DEFAULT_SEED)
+    .option('--answers <n>', 'number of rows (answers and translations)', wholeNumber('--answers', 1, 50_000_000), DEFAULT_ANSWERS)
+    .option('--seed <s>', 'random seed', wholeNumber('--seed', 0, 0xffffffff), DEFAULT_SEED)
     .option('--out <dir>', 'output folder', DEMO_DIR)
     .option('--xlsx', 'also write library-survey.xlsx', false)
     .parse(argv)

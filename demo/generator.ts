@@ -83,10 +83,10 @@ function sentenceCounts(choices: SentenceChoice[]): number[] {
 }
 
 function themesOf(counts: number[]): (typeof THEME_IDS)[number][] {
-  return THEME_IDS.map((t, k) => ({ t, n: counts[k], k }))
-    .filter((x) => x.n > 0)
-    .sort((a, b) => b.n - a.n || a.k - b.k)
-    .map((x) => x.t);
+  const present: number[] = [];
+  for (let k = 0; k < K; k++) if (counts[k] > 0) present.push(k);
+  if (present.length > 1) present.sort((a, b) => counts[b] - counts[a] || a - b);
+  return present.map((k) => THEME_IDS[k]);
 }
 
 /** Rows one at a time, so a million answers stream without being held in memory. */
@@ -182,6 +182,9 @@ export function* demoItems(options: DemoOptions): Generator<DemoItem> {
   }
 }
 
+const PLANTED_THEME = PLANTED.map((e) => THEME_IDS.indexOf(e.theme));
+const LANGUAGE_KEYS: Record<string, string> = Object.fromEntries([...DEMO_LANGUAGES, 'none'].map((l) => [l, `language:${l}`]));
+
 /** Running summary of planted effects and counts, so huge sizes need not keep rows. */
 export class TruthSummary {
   private readonly sums = PLANTED.map(() => ({ atSum: 0, atN: 0, elseSum: 0, elseN: 0 }));
@@ -199,12 +202,13 @@ export class TruthSummary {
     if (truth.emoji) c.emoji++;
     if (truth.declaredMismatch) c.declaredMismatch++;
     if (truth.typos) c.typos++;
-    const lang = truth.language ?? 'none';
-    c[`language:${lang}`] = (c[`language:${lang}`] ?? 0) + 1;
+    const lang = LANGUAGE_KEYS[truth.language ?? 'none'];
+    c[lang] = (c[lang] ?? 0) + 1;
     // Effects are measured on original answers only: a translation repeats its group's θ.
     if (truth.kind !== 'answer' || truth.mixture === null) return;
-    PLANTED.forEach((e, i) => {
-      const share = truth.mixture![THEME_IDS.indexOf(e.theme)];
+    for (let i = 0; i < PLANTED.length; i++) {
+      const e = PLANTED[i];
+      const share = truth.mixture[PLANTED_THEME[i]];
       const s = this.sums[i];
       if (row[e.covariate] === e.level) {
         s.atSum += share;
@@ -213,7 +217,7 @@ export class TruthSummary {
         s.elseSum += share;
         s.elseN++;
       }
-    });
+    }
   }
 
   effects(): EffectCheck[] {

@@ -58,7 +58,10 @@ export function crossThemeWords(language: DemoLanguage): Map<string, ThemeId[]> 
   return new Map([...owners].filter(([, themes]) => themes.length > 1));
 }
 
-/** Content words used by exactly one theme, per theme and language, sorted. */
+/**
+ * Content words used by exactly one theme, per theme and language, sorted. Single letters ("e" of
+ * "e-books") are left out; a single kanji is a word (谷, 駅, 机).
+ */
 export function keyWords(): Record<ThemeId, Record<DemoLanguage, string[]>> {
   const out = {} as Record<ThemeId, Record<DemoLanguage, string[]>>;
   for (const theme of THEME_IDS) out[theme] = {} as Record<DemoLanguage, string[]>;
@@ -67,7 +70,7 @@ export function keyWords(): Record<ThemeId, Record<DemoLanguage, string[]>> {
     const shared = crossThemeWords(language);
     for (const theme of THEME_IDS) {
       out[theme][language] = [...themeWords(language, theme)]
-        .filter((w) => !isFunctionWord(w, fn, language) && !shared.has(w) && [...w].length > 1)
+        .filter((w) => !isFunctionWord(w, fn, language) && !shared.has(w) && ([...w].length > 1 || /\p{Script=Han}/u.test(w)))
         .sort();
     }
   }

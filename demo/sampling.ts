@@ -47,9 +47,15 @@ export function logGamma(rng: Rng, shape: number): number {
 
 /** θ ~ Dirichlet(alpha), normalised from gamma draws (log-sum-exp for stability). */
 export function dirichlet(rng: Rng, alpha: readonly number[]): number[] {
-  const logs = alpha.map((a) => logGamma(rng, a));
-  const max = Math.max(...logs);
-  const exps = logs.map((l) => Math.exp(l - max));
-  const sum = exps.reduce((s, e) => s + e, 0);
-  return exps.map((e) => e / sum);
+  const k = alpha.length;
+  const out = new Array<number>(k);
+  let max = -Infinity;
+  for (let i = 0; i < k; i++) {
+    out[i] = logGamma(rng, alpha[i]);
+    if (out[i] > max) max = out[i];
+  }
+  let sum = 0;
+  for (let i = 0; i < k; i++) sum += out[i] = Math.exp(out[i] - max);
+  for (let i = 0; i < k; i++) out[i] /= sum;
+  return out;
 }

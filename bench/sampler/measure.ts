@@ -21,6 +21,14 @@ export interface KFigures {
   ttqFastAll: number;
   sweepsFast1: number;
   sweepsFastAll: number;
+  /** Tokens per CPU second of the single-threaded loops (contention-robust companions). */
+  floorCpu: number;
+  /** Tokens/s over the first half of the sweeps (random start, dense counts). */
+  referenceEarly: number;
+  fast1Early: number;
+  fastAllEarly: number;
+  referenceCpu: number;
+  fast1Cpu: number;
   bytesPerToken: number;
   tableBytes: number;
 }
@@ -42,6 +50,10 @@ function benchPriors(b: BenchCorpus, K: number): Priors {
 
 interface Trace {
   tokensPerSecond: number;
+  /** Tokens per second of process CPU time (robust when other programs share the cores). */
+  tokensPerCpuSecond: number;
+  /** Tokens per second over the first half of the sweeps (from the random start). */
+  earlyTokensPerSecond: number;
   /** Sampling seconds until the target was first reached (Infinity if never). */
   secondsToTarget: number;
   sweepsToTarget: number;
@@ -52,7 +64,7 @@ interface Trace {
 }
 
 /** Runs `sweeps` sweeps (and more, up to 2×, until `target` is reached); likelihood is not timed. */
-function trace(b: BenchCorpus, sampler: Sampler, priors: Priors, sweeps: number, target: number, seed: number): Trace {
+function trace(b: BenchCorpus, sampler: Sampler, priors: Priors, sweeps: number, target: number, seed: number, maxSweeps = 2 * sweeps): Trace {
   const N = b.corpus.words.length;
   const rng = Xoshiro128.fromSeed(seed);
   let seconds = 0;
@@ -62,11 +74,29 @@ function trace(b: BenchCorpus, sampler: Sampler, priors: Priors, sweeps: number,
   let secondsAtSweeps = 0;
   const logLiks: number[] = [];
   const times: number[] = [];
-  for (let s = 1; s <= 2 * sweeps; s++) {
+  let cpu = 0;
+  let cpuAtSweeps = 0;
+  // Throughput is taken over the second half of the sweeps (steady state); the first half, from
+  // the random start where word-topic counts are dense, is reported apart and is fully included
+  // in time to quality.
+  const half = Math.floor(sweeps / 2);
+  let secondsAtHalf = 0;
+  let cpuAtHalf = 0;
+  for (let s = 1; s <= maxSweeps; s++) {
     const t = performance.now();
+    const c = process.cpuUsage();
     sampler.sweep(rng);
+    const dc = process.cpuUsage(c);
     seconds += (performance.now() - t) / 1000;
-    if (s === sweeps) secondsAtSweeps = seconds;
+    cpu += (dc.user + dc.system) / 1e6;
+    if (s === half) {
+      secondsAtHalf = seconds;
+      cpuAtHalf = cpu;
+    }
+    if (s === sweeps) {
+      secondsAtSweeps = seconds;
+      cpuAtSweeps = cpu;
+    }
     ll = logJointLikelihood(b.corpus, sampler.z, priors.K, priors, { nkw: sampler.wordTopicCounts(), nk: sampler.topicTotals() }) / N;
     logLiks.push(ll);
     times.push(seconds);
@@ -76,7 +106,12 @@ function trace(b: BenchCorpus, sampler: Sampler, priors: Priors, sweeps: number,
     }
     if (s >= sweeps && secondsToTarget !== Infinity) break;
   }
-  return { tokensPerSecond: (N * sweeps) / secondsAtSweeps, secondsToTarget, sweepsToTarget, lastLogLik: ll, logLiks, times };
+  const late = sweeps - half;
+  return {
+    tokensPerSecond: (N * late) / (secondsAtSweeps - secondsAtHalf),
+    tokensPerCpuSecond: (N * late) / (cpuAtSweeps - cpuAtHalf),
+    earlyTokensPerSecond: (N * half) / secondsAtHalf,
+    secondsToTarget, sweepsToTarget, lastLogLik: ll, logLiks, times };
 }
 
 export async function measureK(b: BenchCorpus, K: number, o: MeasureOptions): Promise<KFigures> {
@@ -91,13 +126,16 @@ export async function measureK(b: BenchCorpus, K: number, o: MeasureOptions): Pr
   const ngk = new Int32Array(K);
   floorSweep(corpus, zf, K, nkw, nk, ngk); // warm-up
   let t = performance.now();
+  const c0 = process.cpuUsage();
   for (let s = 0; s < o.floorSweeps; s++) floorSweep(corpus, zf, K, nkw, nk, ngk);
   const floor = (N * o.floorSweeps) / ((performance.now() - t) / 1000);
+  const fc = process.cpuUsage(c0);
+  const floorCpu = (N * o.floorSweeps) / ((fc.user + fc.system) / 1e6);
   o.log(`K=${K} floor: ${(floor / 1e6).toFixed(2)} M tokens/s`);
 
   // Reference: its likelihood at the last sweep is the quality target.
   const ref = createReferenceSampler(corpus, z0.slice(), priors);
-  const refTrace = trace(b, ref, priors, o.qualitySweeps, Infinity, 11);
+  const refTrace = trace(b, ref, priors, o.qualitySweeps, Infinity, 11, o.qualitySweeps);
   const target = refTrace.lastLogLik;
   // The same rule for every sampler: first sweep whose likelihood reaches the target.
   const refFirst = refTrace.logLiks.findIndex((ll) => ll >= target);
@@ -125,6 +163,12 @@ export async function measureK(b: BenchCorpus, K: number, o: MeasureOptions): Pr
   return {
     K,
     floor,
+    floorCpu,
+    referenceEarly: refTrace.earlyTokensPerSecond,
+    fast1Early: fast.earlyTokensPerSecond,
+    fastAllEarly: parallel.earlyTokensPerSecond,
+    referenceCpu: refTrace.tokensPerCpuSecond,
+    fast1Cpu: fast.tokensPerCpuSecond,
     reference: refTrace.tokensPerSecond,
     fast1: fast.tokensPerSecond,
     fastAll: parallel.tokensPerSecond,

@@ -1,7 +1,7 @@
 // checks and compare-k (issue 6 item 6).
 import type { Command } from 'commander';
 import { buildKComparison, type KRunSummary } from '../eval/index.js';
-import { loadRunModel, runChecks, type RunChecks } from '../services/index.js';
+import { loadRunModel, requireStudy, runChecks, type RunChecks } from '../services/index.js';
 import { getRunByName } from '../store/index.js';
 import { InputError } from '../text/types.js';
 import type { CliContext } from './context.js';
@@ -53,7 +53,7 @@ export function registerCheckCommands(program: Command, ctx: CliContext): void {
       for (const K of ks) {
         for (let seed = 1; seed <= seeds; seed++) {
           const d = await fitInProcess(ctx, { ...flags, themes: String(K), seed: String(seed), holdout: flags.holdout ?? '0.1' }, `K=${K} seed ${seed}: `);
-          const model = loadRunModel(store, getRunByName(store, store.db.prepare('SELECT id FROM studies WHERE name = ?').pluck().get(flags.study) as number, d.run)!.id)!;
+          const model = loadRunModel(store, getRunByName(store, requireStudy(store, flags.study).id, d.run)!.id)!;
           const c = runChecks(store, model);
           summaries.push({ K, seed, perplexity: c.perplexity?.perplexity ?? NaN, npmi: c.coherence.meanNpmi, logConditional: c.coherence.meanLogConditional, themes: model.phi });
           ctx.err(`K=${K} seed ${seed}: run ${d.run}, perplexity ${f(c.perplexity?.perplexity ?? NaN, 1)}, NPMI ${f(c.coherence.meanNpmi)}.`);

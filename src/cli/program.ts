@@ -30,6 +30,18 @@ export function buildProgram(ctx: CliContext): Command {
     .description('Find themes in free-text answers written in several languages and compare them across groups.')
     .option('--data <dir>', 'data folder (holds themata.sqlite)', process.env.THEMATA_DATA ?? './data')
     .showHelpAfterError('(run with --help for usage)')
+    .addHelpText(
+      'after',
+      `
+Examples:
+  themata import answers.csv --study "Wave 1" --text answer --id id --lang language --covariate region --weight weight
+  themata fit --study "Wave 1" --themes 12 --covariate region --holdout 0.1 --name k12
+  themata export --study "Wave 1" --run k12 --out results/
+  themata apply --study "Wave 1" --run k12 wave2.csv --out wave2-coded.csv
+  themata serve --demo
+
+Exit codes: 0 done, 2 a problem with the input or the command line (one line on stderr), 1 anything else.`,
+    )
     .exitOverride()
     .configureOutput({ writeOut: (s) => ctx.io.stdout.write(s), writeErr: (s) => ctx.io.stderr.write(s) });
   registerStudyCommands(program, ctx);
@@ -53,7 +65,7 @@ export async function runCli(args: readonly string[], io: CliIo): Promise<number
     return 0;
   } catch (e) {
     if (e instanceof CommanderError) {
-      if (e.code === 'commander.helpDisplayed' || e.code === 'commander.version' || e.code === 'commander.help') return 0;
+      if (e.code === 'commander.helpDisplayed' || e.code === 'commander.version') return 0;
       return e.exitCode === 0 ? 0 : EXIT_INPUT;
     }
     if (e instanceof InputError) {

@@ -62,11 +62,13 @@ export function registerStudyCommands(program: Command, ctx: CliContext): void {
     .description('list every answer\'s language decision as CSV: id,question,language,source,confidence')
     .requiredOption('--study <name>', 'study name')
     .option('--out <file>', 'write the CSV to this file (UTF-8 with BOM) instead of standard output')
-    .action(async (flags: { study: string; out?: string }) => {
+    .option('--disagreements', 'only answers whose declared language differs from the language written')
+    .action(async (flags: { study: string; out?: string; disagreements?: boolean }) => {
       const store = ctx.openStore();
       const study = requireStudy(store, flags.study);
       const header = ['id', 'question', 'language', 'source', 'confidence'];
-      const rows = [...iterateDocuments(store, study.id)].map((d) => [d.rowId, d.question, d.language ?? 'undetermined', d.languageSource, Math.round(d.confidence * 1000) / 1000]);
+      const docs = iterateDocuments(store, study.id, flags.disagreements ? { disagreements: true } : {});
+      const rows = [...docs].map((d) => [d.rowId, d.question, d.language ?? 'undetermined', d.languageSource, Math.round(d.confidence * 1000) / 1000]);
       if (flags.out) {
         await writeFile(flags.out, csvBytes(header, rows));
         ctx.err(`Wrote ${rows.length} rows to ${flags.out}.`);

@@ -11,6 +11,7 @@
 // Chance: with n candidates of which m are partners, in uniformly random order,
 //   P(best partner at rank r) = C(n−r, m−1)/C(n, m), so chance P@1 = m/n and chance
 //   MRR = Σ_r P(r)/r, which for m = 1 is H_n/n (H_n the n-th harmonic number).
+import { Xoshiro128 } from '../model/rng.js';
 import { jensenShannon } from './divergence.js';
 
 export interface AlignmentInput {
@@ -28,6 +29,7 @@ export interface AlignmentPair {
   readonly from: string;
   readonly to: string;
   readonly queries: number;
+  /** Candidates per query (mean; all held-out documents of the target language unless capped). */
   readonly candidates: number;
   readonly precisionAt1: number;
   readonly meanReciprocalRank: number;
@@ -57,9 +59,24 @@ export function chanceReciprocalRank(n: number, m = 1): number {
   return sum;
 }
 
-export function crossLanguageAlignment(input: AlignmentInput): AlignmentResult {
+export interface AlignmentOptions {
+  /** At most this many queries per language pair, chosen at random (default 1000, common practice). */
+  readonly maxQueries?: number;
+  /**
+   * At most this many candidates of the other language: a random subset, to which each query's
+   * own partners are always added (default 1000). Chance is computed for the pool actually used.
+   */
+  readonly maxCandidates?: number;
+  readonly seed?: number;
+}
+
+/** Partner retrieval and divergences for every ordered pair of languages. Cost: Q·C·K per pair. */
+export function crossLanguageAlignment(input: AlignmentInput, options: AlignmentOptions = {}): AlignmentResult {
   const { K, mixtures, docLanguage, docGroup } = input;
   const n = docLanguage.length;
+  const maxQueries = options.maxQueries ?? 1000;
+  const maxCandidates = options.maxCandidates ?? 1000;
+  const rng = Xoshiro128.fromSeed(options.seed ?? 1);
   let L = 0;
   for (let d = 0; d < n; d++) L = Math.max(L, docLanguage[d] + 1);
   const names = Array.from({ length: L }, (_, l) => input.languages?.[l] ?? String(l));
@@ -67,12 +84,18 @@ export function crossLanguageAlignment(input: AlignmentInput): AlignmentResult {
   for (let d = 0; d < n; d++) byLanguage[docLanguage[d]].push(d);
 
   const pairs: AlignmentPair[] = [];
-  const div = new Float64Array(n);
   for (let a = 0; a < L; a++) {
     for (let b = 0; b < L; b++) {
       if (a === b || byLanguage[b].length === 0) continue;
-      const cands = byLanguage[b];
-      let queries = 0;
+      const partnersOf = new Map<number, number[]>();
+      for (const c of byLanguage[b]) {
+        const list = partnersOf.get(docGroup[c]);
+        if (list) list.push(c);
+        else partnersOf.set(docGroup[c], [c]);
+      }
+      const queryDocs = sample(byLanguage[a].filter((q) => partnersOf.has(docGroup[q])), maxQueries, rng);
+      if (queryDocs.length === 0) continue;
+      const pool = sample(byLanguage[b], maxCandidates, rng);
       let hits = 0;
       let rr = 0;
       let chanceP1 = 0;
@@ -81,36 +104,40 @@ export function crossLanguageAlignment(input: AlignmentInput): AlignmentResult {
       let partnerCount = 0;
       let otherDiv = 0;
       let otherCount = 0;
-      for (const q of byLanguage[a]) {
+      let candidateSum = 0;
+      const other = new Float64Array(pool.length);
+      for (const q of queryDocs) {
+        const partners = partnersOf.get(docGroup[q])!;
         let best = Infinity;
-        let m = 0;
-        for (const c of cands) {
+        for (const c of partners) {
           const v = jensenShannon(mixtures, mixtures, K, q * K, c * K);
-          div[c] = v;
-          if (docGroup[c] === docGroup[q]) {
-            m++;
-            best = Math.min(best, v);
-            partnerDiv += v;
-            partnerCount++;
-          } else {
-            otherDiv += v;
-            otherCount++;
-          }
+          best = Math.min(best, v);
+          partnerDiv += v;
+          partnerCount++;
         }
-        if (m === 0) continue;
+        let nOther = 0;
+        for (const c of pool) {
+          if (docGroup[c] === docGroup[q]) continue;
+          const v = jensenShannon(mixtures, mixtures, K, q * K, c * K);
+          other[nOther++] = v;
+          otherDiv += v;
+          otherCount++;
+        }
         let rank = 1;
-        for (const c of cands) if (docGroup[c] !== docGroup[q] && div[c] <= best) rank++;
-        queries++;
+        for (let i = 0; i < nOther; i++) if (other[i] <= best) rank++;
+        const m = partners.length;
+        const size = nOther + m;
+        candidateSum += size;
         if (rank === 1) hits++;
         rr += 1 / rank;
-        chanceP1 += m / cands.length;
-        chanceRr += chanceReciprocalRank(cands.length, m);
+        chanceP1 += m / size;
+        chanceRr += chanceReciprocalRank(size, m);
       }
-      if (queries === 0) continue;
+      const Q = queryDocs.length;
       pairs.push({
-        from: names[a], to: names[b], queries, candidates: cands.length,
-        precisionAt1: hits / queries, meanReciprocalRank: rr / queries,
-        chancePrecisionAt1: chanceP1 / queries, chanceMeanReciprocalRank: chanceRr / queries,
+        from: names[a], to: names[b], queries: Q, candidates: Math.round(candidateSum / Q),
+        precisionAt1: hits / Q, meanReciprocalRank: rr / Q,
+        chancePrecisionAt1: chanceP1 / Q, chanceMeanReciprocalRank: chanceRr / Q,
         partnerDivergence: partnerDiv / partnerCount, otherDivergence: otherCount > 0 ? otherDiv / otherCount : NaN,
       });
     }
@@ -129,4 +156,15 @@ export function crossLanguageAlignment(input: AlignmentInput): AlignmentResult {
       otherDivergence: mean((p) => p.otherDivergence),
     },
   };
+}
+
+/** Up to `max` items of `items` chosen at random (all of them, in order, when there are few). */
+function sample(items: number[], max: number, rng: Xoshiro128): number[] {
+  if (items.length <= max) return items;
+  const a = items.slice();
+  for (let i = 0; i < max; i++) {
+    const j = i + rng.nextInt(a.length - i);
+    [a[i], a[j]] = [a[j], a[i]];
+  }
+  return a.slice(0, max).sort((x, y) => x - y);
 }

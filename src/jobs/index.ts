@@ -2,3 +2,4 @@
 export { JobQueue, type JobEvent, type JobListener, type JobQueueOptions } from './queue.js';
 export { startTypeScriptWorker } from './worker-launch.js';
 export type { FitWorkerData, FromWorker, ToWorker } from './messages.js';
+export { CONTRAST_DRAWS, contrastKey } from './summary-keys.js';

@@ -194,12 +194,14 @@ export class JobQueue {
   private onMessage(runId: number, a: Active, msg: FromWorker): void {
     switch (msg.type) {
       case 'started':
-        if (msg.resumedFromSweep !== null) a.trace = (getRun(this.store, runId)?.progress.trace ?? []).slice();
+        // A resumed fit continues the likelihood trace of the sweeps its checkpoint holds.
+        if (msg.resumedFromSweep !== null) a.trace = (getRun(this.store, runId)?.progress.trace ?? []).slice(0, msg.resumedFromSweep);
         break;
       case 'progress': {
         const p = msg.progress;
         if (Array.isArray(p.trace)) a.trace = p.trace.slice(-TRACE_LIMIT);
-        else if (typeof p.logLikelihoodPerToken === 'number' && Number.isFinite(p.logLikelihoodPerToken)) {
+        // One trace point per sweep: closing or phase messages that repeat a sweep are not added.
+        else if (typeof p.logLikelihoodPerToken === 'number' && Number.isFinite(p.logLikelihoodPerToken) && p.sweep === a.trace.length + 1) {
           a.trace.push(p.logLikelihoodPerToken);
           if (a.trace.length > TRACE_LIMIT) a.trace.splice(0, a.trace.length - TRACE_LIMIT);
         }

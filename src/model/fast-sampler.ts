@@ -28,7 +28,7 @@ class FastSampler implements Sampler {
   }
 
   wordTopicCounts(): Int32Array {
-    return this.state.nkw;
+    return this.state.denseCounts();
   }
 
   topicTotals(): Int32Array {

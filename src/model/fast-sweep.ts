@@ -15,7 +15,9 @@
 // are ≈20 tokens, so O(K/20) per token) and kept up to date incrementally while the document's
 // tokens move, which also bounds floating-point drift to one document. r is rebuilt per document
 // from the group's non-zero topics; n_gk is rebuilt from z when the sweep enters a group (docs are
-// short), so no G×K array exists. q is summed fresh per token over the word's non-zero topics.
+// short), so no G×K array exists. q is summed fresh per token over the word's non-zero topics,
+// with SparseLDA's cached coefficient (n_gk + α_pk) c_k (built in the same O(K) pass as s and
+// updated for the two topics a token moves between), so each non-zero topic costs two loads.
 import type { Rng } from './types.js';
 import type { FastState } from './fast-state.js';
 
@@ -25,10 +27,12 @@ export interface FastScratch {
   gList: Uint16Array;
   gPos: Int32Array;
   qCum: Float64Array;
+  /** (n_gk + α_pk) / (n_k^ℓ + V_ℓ β_ℓ) for the current document (SparseLDA's cached coefficient). */
+  coef: Float64Array;
 }
 
 export function createScratch(K: number): FastScratch {
-  return { ngk: new Int32Array(K), gList: new Uint16Array(K), gPos: new Int32Array(K), qCum: new Float64Array(K) };
+  return { ngk: new Int32Array(K), gList: new Uint16Array(K), gPos: new Int32Array(K), qCum: new Float64Array(K), coef: new Float64Array(K) };
 }
 
 /**
@@ -45,9 +49,9 @@ export function sweepGroups(
   rng: Rng,
   log: Int32Array | null,
 ): number {
-  const { K, nkw, nk, inv, vb, wlStart, wlLen, wlTopics, alpha, beta } = st;
+  const { K, nk, inv, vb, wlStart, wlLen, wlTopics, wlCounts, alpha, beta } = st;
   const { words, docOffsets, docLanguage, groupDocOffsets, wordBase } = st.corpus;
-  const { ngk, gList, gPos, qCum } = scratch;
+  const { ngk, gList, gPos, qCum, coef } = scratch;
   let logPos = 0;
   let gn = 0;
   let s = 0;
@@ -76,18 +80,23 @@ export function sweepGroups(
       const lK = l * K;
       const base = wordBase[l];
       s = 0;
-      for (let k = 0; k < K; k++) s += alpha[aOff + k] * inv[lK + k];
+      for (let k = 0; k < K; k++) {
+        const c0 = alpha[aOff + k] * inv[lK + k];
+        coef[k] = c0;
+        s += c0;
+      }
       s *= b;
       r = 0;
       for (let j = 0; j < gn; j++) {
         const k = gList[j];
-        r += ngk[k] * inv[lK + k];
+        const c1 = ngk[k] * inv[lK + k];
+        coef[k] += c1;
+        r += c1;
       }
       r *= b;
       const i1 = docOffsets[d + 1];
       for (let i = docOffsets[d]; i < i1; i++) {
         const row = base + words[i];
-        const rowK = row * K;
         const old = z[i];
         // Remove token i from the counts, keeping s and r current.
         let iv = inv[lK + old];
@@ -106,34 +115,43 @@ export function sweepGroups(
         inv[lK + old] = iv;
         s += b * a * iv;
         r += b * c * iv;
+        coef[old] = (c + a) * iv;
         if (gn === 0) r = 0;
+        // Word list: decrement n_kw of the old topic, bubbling down to keep the count order;
+        // at zero it is last and drops off.
         const ws = wlStart[row];
-        let wn = wlLen[row];
-        if (--nkw[rowK + old] === 0) {
-          const last = ws + wn - 1;
-          let j = ws;
-          while (wlTopics[j] !== old) j++;
-          wlTopics[j] = wlTopics[last];
-          wlLen[row] = --wn;
+        let we = ws + wlLen[row];
+        let j = ws;
+        while (wlTopics[j] !== old) j++;
+        let cw = wlCounts[j] - 1;
+        while (j + 1 < we && wlCounts[j + 1] > cw) {
+          wlCounts[j] = wlCounts[j + 1];
+          wlTopics[j] = wlTopics[j + 1];
+          j++;
         }
-        // Word bucket, summed fresh.
+        wlCounts[j] = cw;
+        wlTopics[j] = old;
+        if (cw === 0) we--;
+        // Word bucket, summed fresh from the list (counts read from the list, not the dense table).
         q = 0;
-        for (let j = 0; j < wn; j++) {
-          const k = wlTopics[ws + j];
-          q += (ngk[k] + alpha[aOff + k]) * inv[lK + k] * nkw[rowK + k];
-          qCum[j] = q;
+        for (j = ws; j < we; j++) {
+          q += coef[wlTopics[j]] * wlCounts[j];
+          qCum[j - ws] = q;
         }
         u = rng.nextDouble() * (s + r + q);
         let nw = -1;
+        let at = -1;
         if (u < q) {
-          let j = 0;
-          while (j < wn - 1 && qCum[j] <= u) j++;
-          nw = wlTopics[ws + j];
+          const wn = we - ws;
+          at = 0;
+          while (at < wn - 1 && qCum[at] <= u) at++;
+          at += ws;
+          nw = wlTopics[at];
         } else {
           u -= q;
           if (u < r) {
-            for (let j = 0; j < gn; j++) {
-              const k = gList[j];
+            for (let jg = 0; jg < gn; jg++) {
+              const k = gList[jg];
               u -= b * ngk[k] * inv[lK + k];
               if (u < 0) {
                 nw = k;
@@ -170,7 +188,27 @@ export function sweepGroups(
         inv[lK + nw] = iv;
         s += b * a * iv;
         r += b * c * iv;
-        if (nkw[rowK + nw]++ === 0) wlTopics[ws + wlLen[row]++] = nw;
+        coef[nw] = (c + a) * iv;
+        // Word list: increment n_kw of the new topic (found by the word bucket, or looked up),
+        // bubbling up to keep the count order.
+        if (at < 0) {
+          at = ws;
+          while (at < we && wlTopics[at] !== nw) at++;
+          if (at === we) {
+            wlTopics[at] = nw;
+            wlCounts[at] = 0;
+            we++;
+          }
+        }
+        cw = wlCounts[at] + 1;
+        while (at > ws && wlCounts[at - 1] < cw) {
+          wlCounts[at] = wlCounts[at - 1];
+          wlTopics[at] = wlTopics[at - 1];
+          at--;
+        }
+        wlCounts[at] = cw;
+        wlTopics[at] = nw;
+        wlLen[row] = we - ws;
         z[i] = nw;
         if (log !== null && nw !== old) {
           log[logPos++] = row;
@@ -180,5 +218,6 @@ export function sweepGroups(
     }
     for (let j = 0; j < gn; j++) ngk[gList[j]] = 0;
   }
+  if (g1 > g0) st.touched();
   return logPos;
 }

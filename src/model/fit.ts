@@ -9,126 +9,17 @@
 import { accumulatePhi, groupMixtures, phiByLanguage } from './posterior-samples.js';
 import { betaHistogram, optimizeBeta } from './beta-optimizer.js';
 import { type Checkpoint, CHECKPOINT_VERSION } from './checkpoint.js';
-import { DEFAULT_PRIOR_VARIANCE, dmrHistograms, optimizeLambda, type PriorVariance } from './dmr.js';
+import { dmrHistograms, optimizeLambda } from './dmr.js';
 import { alphaFromLambda, type GroupFeatures, interceptOnlyFeatures } from './features.js';
+import { type FitHooks, type FitResult, type FitSettings, resolveFitSettings } from './fit-settings.js';
 import { initialAssignments } from './initialize.js';
 import { logJointLikelihood } from './log-likelihood.js';
-import { createReferenceSampler, randomAssignments } from './reference-sampler.js';
+import { randomAssignments } from './reference-sampler.js';
 import { Xoshiro128 } from './rng.js';
-import type { Corpus, Priors, SamplerFactory } from './types.js';
+import type { Corpus, Priors } from './types.js';
 
-export interface FitSettings {
-  K: number;
-  sweeps: number;
-  burnIn: number;
-  seed: number;
-  /** Re-estimate λ and β every this many sweeps (0 = never). */
-  optimizeEvery: number;
-  /** First sweep after which optimization may run. */
-  optimizeFrom: number;
-  sampleEvery: number;
-  /** Keep at most this many whole θ samples (the most recent). */
-  keepThetaSamples: number;
-  /** …and at most this many Float32 cells in total across them (memory bound). */
-  maxThetaSampleCells: number;
-  /** Emit a checkpoint every this many sweeps (0 = only when stopping). */
-  checkpointEvery: number;
-  samplerFactory: SamplerFactory;
-  priorVariance: PriorVariance;
-  /** Initial symmetric α per topic (common practice: 0.1) and β (common practice: 0.01). */
-  initialAlpha: number;
-  initialBeta: number;
-  optimizeBeta: boolean;
-  optimizeLambda: boolean;
-  /** 'sequential' (warm start on multilingual link groups, then one sequential pass) or 'random'. */
-  initialization: 'sequential' | 'random';
-  /** Sweeps of the warm start on multilingual link groups (see initialize.ts). */
-  warmStartSweeps: number;
-}
-
-export const DEFAULT_FIT_SETTINGS: Omit<FitSettings, 'K'> = {
-  sweeps: 1000,
-  burnIn: 200,
-  seed: 1,
-  optimizeEvery: 10,
-  optimizeFrom: -1, // resolved to floor(burnIn / 2)
-  sampleEvery: 10,
-  keepThetaSamples: 20,
-  maxThetaSampleCells: 50_000_000,
-  checkpointEvery: 50,
-  samplerFactory: createReferenceSampler,
-  priorVariance: DEFAULT_PRIOR_VARIANCE,
-  initialAlpha: 0.1,
-  initialBeta: 0.01,
-  optimizeBeta: true,
-  optimizeLambda: true,
-  initialization: 'sequential',
-  warmStartSweeps: 50,
-};
-
-export interface SweepProgress {
-  sweep: number;
-  sweeps: number;
-  tokensPerSecond: number;
-  logLikelihoodPerToken: number;
-  /** Estimated seconds left. */
-  eta: number;
-}
-
-export interface FitHooks {
-  onSweep?(progress: SweepProgress): void;
-  onCheckpoint?(checkpoint: Checkpoint): void | Promise<void>;
-  shouldStop?(): boolean;
-  resumeFrom?: Checkpoint;
-}
-
-export interface FitResult {
-  K: number;
-  languages: readonly string[];
-  /** φ̂ per language, K×V_ℓ row-major: phi[ℓ][k·V_ℓ + w]; posterior mean over saved samples. */
-  phi: Float64Array[];
-  /** θ̂ per link group, G×K row-major; posterior mean over saved samples. */
-  theta: Float64Array;
-  /** The most recent saved θ samples (G×K each) and the sweeps they come from. */
-  thetaSamples: Float32Array[];
-  thetaSampleSweeps: number[];
-  /** λ, K×F row-major (F = features.numFeatures; feature 0 is the intercept). */
-  lambda: Float64Array;
-  featureNames: string[];
-  /** α per pattern (P×K) and the pattern of each group. */
-  alpha: Float64Array;
-  groupPattern: Int32Array;
-  beta: Float64Array;
-  /** Joint log-likelihood per token after each sweep. */
-  logLikelihoodTrace: Float64Array;
-  /** Final assignments and counts ((ΣV_ℓ)×K and L×K). */
-  z: Uint16Array;
-  wordTopicCounts: Int32Array;
-  topicTotals: Int32Array;
-  /** Final state, to continue the run later. */
-  checkpoint: Checkpoint;
-  diagnostics: {
-    sampler: string;
-    sweepsCompleted: number;
-    stopped: boolean;
-    samples: number;
-    tokens: number;
-    seconds: number;
-    tokensPerSecond: number;
-    optimizations: number;
-    finalLogLikelihoodPerToken: number;
-  };
-}
-
-function resolve(settings: Partial<FitSettings> & { K: number }): FitSettings {
-  const s = { ...DEFAULT_FIT_SETTINGS, ...settings };
-  if (s.optimizeFrom < 0) s.optimizeFrom = Math.floor(s.burnIn / 2);
-  if (!(Number.isInteger(s.K) && s.K >= 1 && s.K <= 65535)) throw new Error(`The number of themes must be a whole number from 1 to 65535 (got ${s.K}).`);
-  if (!(s.sweeps >= 1)) throw new Error(`Sweeps must be at least 1 (got ${s.sweeps}).`);
-  if (!(s.burnIn >= 0 && s.burnIn < s.sweeps)) throw new Error(`Burn-in (${s.burnIn}) must be below the number of sweeps (${s.sweeps}).`);
-  if (!(s.sampleEvery >= 1)) throw new Error('sampleEvery must be at least 1.');
-  return s;
-}
+export { DEFAULT_FIT_SETTINGS } from './fit-settings.js';
+export type { FitHooks, FitResult, FitSettings, SweepProgress } from './fit-settings.js';
 
 /** Fits the polylingual DMR topic model by collapsed Gibbs sampling. */
 export async function fitModel(
@@ -137,7 +28,7 @@ export async function fitModel(
   settings: Partial<FitSettings> & { K: number },
   hooks: FitHooks = {},
 ): Promise<FitResult> {
-  const s = resolve(settings);
+  const s = resolveFitSettings(settings);
   const K = s.K;
   const feats = features ?? interceptOnlyFeatures(corpus.numGroups);
   const F = feats.numFeatures;
@@ -181,7 +72,8 @@ export async function fitModel(
   } else {
     rng = Xoshiro128.fromSeed(s.seed);
     lambda = new Float64Array(K * F);
-    for (let k = 0; k < K; k++) lambda[k * F] = Math.log(s.initialAlpha);
+    const a0 = s.initialAlpha ?? Math.min(1, 50 / K);
+    for (let k = 0; k < K; k++) lambda[k * F] = Math.log(a0);
     beta = new Float64Array(L).fill(s.initialBeta);
     const initPriors: Priors = { K, groupPattern: feats.groupPattern, alpha: alphaFromLambda(lambda, feats.patterns, K, F), beta };
     z =

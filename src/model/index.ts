@@ -26,6 +26,8 @@ export { accumulatePhi, groupMixtures, phiByLanguage } from './posterior-samples
 export { CHECKPOINT_VERSION, decodeCheckpoint, encodeCheckpoint } from './checkpoint.js';
 export type { Checkpoint } from './checkpoint.js';
 export { DEFAULT_FIT_SETTINGS, fitModel } from './fit.js';
+export { resolveFitSettings } from './fit-settings.js';
+export { initialAssignments } from './initialize.js';
 export type { FitHooks, FitResult, FitSettings, SweepProgress } from './fit.js';
 export { foldIn } from './fold-in.js';
 export type { FoldInDocument, FoldInModel, FoldInResult, FoldInSettings } from './fold-in.js';

@@ -47,6 +47,16 @@ export function createApp(deps: AppDeps): Hono<AppEnv> {
   app.route('/', vocabularyRoutes());
   app.route('/', runRoutes());
   const runData = new RunDataCache(deps.store);
+  // Load a run's results as soon as it finishes, so the first visit to its pages is quick.
+  deps.queue.subscribe(null, (e) => {
+    if (e.kind === 'status' && e.status === 'finished') setTimeout(() => {
+      try {
+        runData.get(e.runId);
+      } catch {
+        // The store may be closing; the page loads the results when it is opened.
+      }
+    }, 0).unref();
+  });
   app.route('/', resultRoutes(runData));
   app.route('/', exportRoutes(runData));
 

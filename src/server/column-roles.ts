@@ -25,16 +25,17 @@ export interface ColumnProfile {
   readonly examples: string[];
 }
 
-const SAMPLE = 2000; // rows looked at: enough to tell a text column from a code, common practice
+/** Rows looked at: enough to tell a text column from a code (common practice). */
+export const PROFILE_ROWS = 2000;
 
 export function profileColumns(table: Table): ColumnProfile[] {
-  const rows = table.rows.slice(0, SAMPLE);
+  const rows = table.rows.slice(0, PROFILE_ROWS);
   const profiles = table.columns.map((name, j) => {
     const values = rows.map((r) => (r[j] ?? '').trim()).filter((v) => v !== '');
     const distinct = new Set(values).size;
     const numeric = values.filter((v) => /^[-+]?(\d+([.,]\d*)?|[.,]\d+)([eE][-+]?\d+)?$/.test(v)).length;
     const meanLength = values.length ? values.reduce((s, v) => s + v.length, 0) / values.length : 0;
-    const examples = [...new Set(values)].slice(0, 3).map((v) => (v.length > 60 ? `${v.slice(0, 57)}…` : v));
+    const examples = [...new Set(values)].slice(0, 3).map((v) => (v.length > 40 ? `${v.slice(0, 37)}…` : v));
     return { name, filled: values.length, distinct, numericShare: values.length ? numeric / values.length : 0, meanLength, examples, role: 'ignore' as ColumnRole };
   });
   const taken = new Set<ColumnRole>();

@@ -1,5 +1,5 @@
 // Export of a finished run (DESIGN §8): the files people take away, built in memory.
-import { getStudy, getStudyWordLists, iterateDocuments, listImports, loadVocabulary, type Store } from '../store/index.js';
+import { documentTokensByIds, getStudy, getStudyWordLists, iterateDocuments, listImports, loadVocabulary, type Store } from '../store/index.js';
 import { answersTable, type AnswerRow } from './answers-table.js';
 import { BUNDLE_EXTENSION, BUNDLE_VERSION, encodeBundle, type RunBundle } from './bundle.js';
 import { SHARES_HEADER, contrastCovariates, runContrasts } from './contrasts.js';
@@ -40,11 +40,10 @@ export function studyAnswerRows(store: Store, model: RunModel): AnswerRow[] {
   const runIds = model.vocabularies.map((v) => new Map(v.stems.map((s, i) => [s, i])));
   const pending: { row: number; language: number; tokens: Int32Array; covariates: Record<string, string | number | null> }[] = [];
   const rows: AnswerRow[] = [];
-  const tokenRows = new Map<number, Int32Array>();
-  for (const t of store.db.prepare('SELECT id, tokens FROM documents WHERE study_id = ? AND tokens IS NOT NULL').iterate(model.run.studyId) as Iterable<{ id: number; tokens: Buffer }>) {
-    tokenRows.set(t.id, new Int32Array(new Uint8Array(t.tokens).slice().buffer));
-  }
-  for (const doc of iterateDocuments(store, model.run.studyId)) {
+  const docs = [...iterateDocuments(store, model.run.studyId)];
+  // Tokens only of the answers the fit did not see (they need fold-in).
+  const tokenRows = documentTokensByIds(store, docs.filter((d) => !fitted.has(d.id) && !d.excluded).map((d) => d.id));
+  for (const doc of docs) {
     let mixture: ArrayLike<number> | null = fitted.get(doc.id) ?? null;
     const tokens = tokenRows.get(doc.id);
     if (!mixture && tokens && doc.vocabularyLanguage && !doc.excluded) {

@@ -13,6 +13,7 @@ import {
   getStudy,
   getStudyByName,
   inTransaction,
+  isBusyError,
   latestCheckpoint,
   listDocumentTokens,
   loadVocabulary,
@@ -20,6 +21,7 @@ import {
   saveCheckpoint,
   saveResults,
   uniqueRunName,
+  withBusyRetry,
   type ResultValue,
   type Run,
   type RunProgress,
@@ -48,16 +50,17 @@ export interface FitRequest {
 /** Settings with defaults filled in: 500 sweeps, a fifth of them burn-in (common practice). */
 export function fitSettings(request: FitRequest): RunSettings {
   const sweeps = Math.floor(request.sweeps ?? 500);
+  const burnIn = Math.floor(request.burnIn ?? Math.min(Math.floor(sweeps / 5), 200));
   return {
     themes: Math.floor(request.themes),
     sweeps,
-    burnIn: Math.floor(request.burnIn ?? Math.min(Math.floor(sweeps / 5), 200)),
+    burnIn,
     seed: Math.floor(request.seed ?? 1) >>> 0,
     threads: Math.max(1, Math.floor(request.threads ?? 1)),
     covariates: request.covariates ?? [],
     holdout: request.holdout ?? 0,
     // About 50 saved samples over the run, at least every 10th sweep (common practice).
-    sampleEvery: Math.max(1, Math.min(10, Math.floor((sweeps - Math.min(Math.floor(sweeps / 5), 200)) / 50))),
+    sampleEvery: Math.max(1, Math.min(10, Math.floor((sweeps - burnIn) / 50))),
     maxSamples: 20,
     checkpointEvery: Math.max(0, Math.floor(request.checkpointEvery ?? 50)),
     sampler: request.sampler ?? 'fast',
@@ -155,7 +158,14 @@ export async function runFitJob(options: FitJobOptions): Promise<FitJobOutcome> 
       {
         onSweep: (r) => options.onProgress?.({ phase: 'sampling', ...r }),
         shouldStop: options.shouldStop,
-        onCheckpoint: (sweep, bytes) => saveCheckpoint(store, run.id, sweep, bytes),
+        onCheckpoint: (sweep, bytes) => {
+          try {
+            saveCheckpoint(store, run.id, sweep, bytes);
+          } catch (error) {
+            // A busy database (a long import) must not stop the fit: the next checkpoint will do.
+            if (!isBusyError(error)) throw error;
+          }
+        },
         ...(checkpoint ? { resumeFrom: checkpoint.bytes } : {}),
       },
     );
@@ -253,9 +263,11 @@ function storeFit(store: Store, run: Run, p: PreparedCorpus, out: FitOutput): Fi
     entries[`phi:${lang}`] = { value: out.phi[l], shape: [K, p.vocabularies[l].stems.length] };
     entries[`vocabulary:${lang}`] = { json: p.vocabularies[l] };
   });
-  inTransaction(store, () => {
-    saveResults(store, run.id, entries);
-    clearCheckpoints(store, run.id);
-  });
+  withBusyRetry(() =>
+    inTransaction(store, () => {
+      saveResults(store, run.id, entries);
+      clearCheckpoints(store, run.id);
+    }),
+  );
   return diagnostics;
 }

@@ -2,10 +2,10 @@
 // language, keep the original bytes, then re-run the vocabulary over the whole study. Reading
 // and checking happen before anything is written; every write is one transaction, so bad input
 // (an InputError) or a failure half-way leaves the study exactly as it was.
-import { createStudy, getStudy, getStudyByName, inTransaction, insertDocuments, insertImport, setImportSummary, updateStudy, type Store } from '../store/index.js';
+import { createStudy, exclusionSummary, getStudy, getStudyByName, inTransaction, insertDocuments, insertImport, setImportSummary, updateStudy, type Store } from '../store/index.js';
 import type { ColumnMapping, TableFormat } from '../text/types.js';
 import { DEFAULT_LANGUAGES, InputError, decideLanguages, mapInputColumns, normalizeLanguages, readInputTable } from './text-pipeline.js';
-import { rebuildVocabulary } from './vocabulary.js';
+import { applyVocabulary, planVocabulary, rebuildVocabulary, studyStamp } from './vocabulary.js';
 
 export interface ImportProgress {
   readonly phase: 'reading' | 'languages' | 'saving' | 'vocabulary' | 'done';
@@ -83,9 +83,19 @@ export async function importFile(store: Store, options: ImportOptions): Promise<
   // Declared languages stay; without any, the study's languages are the ones actually found.
   const studyLanguages = explicit ? [...languages, ...found.filter((l) => !languages.includes(l))] : found.sort();
 
+  // The token step over the whole study runs before the write transaction (it is the long part);
+  // the transaction checks that the study did not change meanwhile, else redoes it inside.
+  progress({ phase: 'vocabulary', done: 0, total: docs.length });
+  const plan = planVocabulary(
+    store,
+    existing?.id ?? null,
+    docs.map((d, i) => ({ language: decisions[i].language, text: d.text })),
+    (done, total) => progress({ phase: 'vocabulary', done, total }),
+  );
   progress({ phase: 'saving', done: 0, total: docs.length });
   return inTransaction(store, () => {
     const study = existing ?? createStudy(store, { name: (options.study as string).trim(), languages: studyLanguages });
+    const stampBefore = existing ? studyStamp(store, existing.id) : null;
     if (existing) updateStudy(store, study.id, { languages: studyLanguages });
     const importId = insertImport(store, {
       studyId: study.id,
@@ -114,14 +124,12 @@ export async function importFile(store: Store, options: ImportOptions): Promise<
         excluded: decisions[i].language === null ? 'undetermined' : null,
       })),
     );
-    progress({ phase: 'vocabulary', done: 0, total: ids.length });
-    const vocab = rebuildVocabulary(store, study.id, (done, total) => progress({ phase: 'vocabulary', done, total }));
+    const vocab =
+      existing && stampBefore !== plan.stamp
+        ? rebuildVocabulary(store, study.id)
+        : applyVocabulary(store, study.id, plan, ids);
     const mine = new Set(ids);
-    const excluded: Record<string, number> = {};
-    const rows = store.db
-      .prepare('SELECT excluded, COUNT(*) AS n FROM documents WHERE import_id = ? AND excluded IS NOT NULL GROUP BY excluded')
-      .all(importId) as { excluded: string; n: number }[];
-    for (const r of rows) excluded[r.excluded] = r.n;
+    const excluded = exclusionSummary(store, study.id, importId);
     const perLanguage: Record<string, number> = {};
     const sources: Record<string, number> = {};
     let undetermined = 0;

@@ -92,8 +92,21 @@ export function themeWords(model: Pick<RunModel, 'K' | 'languages' | 'phi' | 'vo
   const phi = model.phi[l];
   const V = phi.length / K;
   const row = k * V;
-  const order = Array.from({ length: V }, (_, w) => w).sort((a, b) => phi[row + b] - phi[row + a] || a - b);
-  return order.slice(0, n).map((w, i) => {
+  // Partial selection of the n largest (ties: lower word id first): O(V·n), no full sort.
+  const m = Math.max(0, Math.min(n, V));
+  const order: number[] = [];
+  for (let w = 0; w < V && m > 0; w++) {
+    const v = phi[row + w];
+    if (order.length === m && v <= phi[row + order[m - 1]]) continue;
+    let i = order.length === m ? m - 1 : order.length;
+    if (order.length < m) order.push(w);
+    while (i > 0 && phi[row + order[i - 1]] < v) {
+      order[i] = order[i - 1];
+      i--;
+    }
+    order[i] = w;
+  }
+  return order.map((w, i) => {
     let sum = 0;
     for (let j = 0; j < K; j++) sum += phi[j * V + w];
     return {

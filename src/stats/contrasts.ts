@@ -6,7 +6,8 @@
 // documents). Draw b uses saved posterior sample s = b mod S of θ and a nonparametric
 // bootstrap resample of the documents within each level (Efron, "Bootstrap methods: another
 // look at the jackknife", Annals of Statistics 1979; resampling within strata, Davison &
-// Hinkley, "Bootstrap Methods and their Application", 1997, §3.7). Intervals are percentile
+// Hinkley, "Bootstrap Methods and their Application", 1997, §3.7; optionally whole link groups
+// as clusters, §3.8; see bootstrap.ts). Intervals are percentile
 // intervals of the draws. A pairwise difference uses the two levels' draws with the same b, so
 // both sides see the same posterior sample. Its two-sided p-value is the share of draws on the
 // far side of zero, doubled: p = min(1, (1 + 2·min(#{Δ ≤ 0}, #{Δ ≥ 0})) / (B + 1)) (the +1
@@ -17,6 +18,7 @@
 // Cost: S·D·K to total the units once, then B·(Σ_ℓ min(n_ℓ, cap))·K for the draws (see
 // bootstrapDraws); resamples are typed-array multiplicities, never objects.
 import { Xoshiro128 } from '../model/rng.js';
+import { bootstrapDraws } from './bootstrap.js';
 import { quantileBins } from './bins.js';
 import { benjaminiHochberg } from './fdr.js';
 import { percentileInterval } from './quantile.js';
@@ -50,6 +52,11 @@ export interface ContrastOptions {
    * as this many random groups of documents, so a draw costs O(cap·K), not O(n·K).
    */
   readonly maxResamplingUnits?: number;
+  /**
+   * Cluster per document (e.g. link group id): documents of one cluster within a level are
+   * resampled together, since linked answers share one mixture (cluster bootstrap).
+   */
+  readonly clusterOfDoc?: Int32Array;
   /** Compare every level with this one only; default: every pair of levels. */
   readonly reference?: string;
 }
@@ -155,8 +162,11 @@ export function groupContrasts(theta: ThetaSamples, covariate: ContrastCovariate
 
   // Draws: posterior sample × bootstrap resample within level; stored level-major, theme, draw.
   const maxUnits = Math.max(2, Math.floor(options.maxResamplingUnits ?? 5000));
-  const drawn = bootstrapDraws(samples, K, members, weights, B, maxUnits, Xoshiro128.fromSeed(options.seed ?? 1));
-  if (members.some((m) => m.length > maxUnits)) notes.push(`Levels with more than ${maxUnits} documents were resampled as ${maxUnits} random groups of documents.`);
+  const clusters = options.clusterOfDoc;
+  if (clusters && clusters.length !== D) throw new Error(`clusterOfDoc has ${clusters.length} values; expected ${D}.`);
+  const drawn = bootstrapDraws(samples, K, members, weights, B, maxUnits, Xoshiro128.fromSeed(options.seed ?? 1), clusters);
+  if (clusters) notes.push('Documents of one link group were resampled together (cluster bootstrap).');
+  if (members.some((m) => m.length > maxUnits)) notes.push(`Levels with more than ${maxUnits} resampling units were resampled as ${maxUnits} random groups of units.`);
 
   const shares: ShareRow[] = [];
   for (let l = 0; l < L; l++) {
@@ -185,81 +195,6 @@ function accumulate(theta: Float64Array | Float32Array, K: number, docs: Int32Ar
     for (let k = 0; k < K; k++) acc[k] += w * theta[base + k];
   }
   return wsum > 0 ? wsum : NaN;
-}
-
-/**
- * B draws of each level's weighted mean shares, out[(l·K + k)·B + b].
- * Resampling units: each document, or — when a level has more than `maxUnits` documents —
- * `maxUnits` random groups of documents (a seeded random partition into near-equal groups, the
- * random-group method of Wolter, "Introduction to Variance Estimation", 2nd ed. 2007, ch. 2).
- * Group totals of independent documents are themselves independent, and the share is the same
- * ratio Σ w θ / Σ w of unit totals, so resampling groups estimates the same sampling spread at
- * a cost of maxUnits instead of n per draw. A resample of the units is drawn as multiplicities
- * c_j (uniform indices counted into an Int32Array), then Σ c_j T_jk / Σ c_j W_j.
- */
-function bootstrapDraws(
-  samples: readonly (Float64Array | Float32Array)[], K: number, members: Int32Array[],
-  weights: Float64Array | undefined, B: number, maxUnits: number, rng: Xoshiro128,
-): Float64Array {
-  const L = members.length;
-  const S = samples.length;
-  const out = new Float64Array(L * K * B);
-  const acc = new Float64Array(K);
-  for (let l = 0; l < L; l++) {
-    const n = members[l].length;
-    if (n === 0) {
-      out.fill(NaN, l * K * B, (l + 1) * K * B);
-      continue;
-    }
-    const M = Math.min(n, maxUnits);
-    const docs = M < n ? shuffled(members[l], rng) : members[l];
-    // Unit totals: T[s][j·K + k] = Σ_{d∈j} w_d θ_dk, W[j] = Σ_{d∈j} w_d.
-    const W = new Float64Array(M);
-    const T = samples.map(() => new Float64Array(M * K));
-    for (let j = 0; j < M; j++) {
-      const start = Math.floor((j * n) / M);
-      const end = Math.floor(((j + 1) * n) / M);
-      for (let i = start; i < end; i++) {
-        const d = docs[i];
-        const w = weights ? weights[d] : 1;
-        W[j] += w;
-        const base = d * K;
-        for (let s = 0; s < S; s++) {
-          const theta = samples[s];
-          const t = T[s];
-          for (let k = 0; k < K; k++) t[j * K + k] += w * theta[base + k];
-        }
-      }
-    }
-    const counts = new Int32Array(M);
-    for (let b = 0; b < B; b++) {
-      const t = T[b % S];
-      counts.fill(0);
-      for (let i = 0; i < M; i++) counts[rng.nextInt(M)]++;
-      acc.fill(0);
-      let wsum = 0;
-      for (let j = 0; j < M; j++) {
-        const c = counts[j];
-        if (c === 0) continue;
-        wsum += c * W[j];
-        for (let k = 0; k < K; k++) acc[k] += c * t[j * K + k];
-      }
-      for (let k = 0; k < K; k++) out[(l * K + k) * B + b] = wsum > 0 ? acc[k] / wsum : NaN;
-    }
-  }
-  return out;
-}
-
-/** A seeded random permutation (Fisher–Yates; Durstenfeld, CACM 1964). */
-function shuffled(docs: Int32Array, rng: Xoshiro128): Int32Array {
-  const a = docs.slice();
-  for (let i = a.length - 1; i > 0; i--) {
-    const j = rng.nextInt(i + 1);
-    const t = a[i];
-    a[i] = a[j];
-    a[j] = t;
-  }
-  return a;
 }
 
 function pairwiseDifferences(

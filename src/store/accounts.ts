@@ -66,7 +66,7 @@ export interface Session {
   readonly expiresAt: string;
 }
 
-/** Create a session; returns the token for the cookie (only its hash is stored) and the CSRF token. */
+/** Create a session (12 hours by default, a working day; common practice); returns the token for the cookie (only its hash is stored) and the CSRF token. */
 export function createSession(store: Store, accountId: number, ttlMs = 12 * 3600_000): { token: string; csrf: string; expiresAt: string } {
   const token = randomBytes(32).toString('base64url');
   const csrf = randomBytes(24).toString('base64url');

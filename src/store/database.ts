@@ -59,3 +59,27 @@ export function inTransaction<T>(store: Store, fn: () => T): T {
 export function now(): string {
   return new Date().toISOString();
 }
+
+/** True for SQLite's "database is locked/busy" errors (another connection holds the write lock). */
+export function isBusyError(error: unknown): boolean {
+  const code = (error as { code?: unknown } | null)?.code;
+  return code === 'SQLITE_BUSY' || code === 'SQLITE_LOCKED' || code === 'SQLITE_BUSY_SNAPSHOT';
+}
+
+/**
+ * Run `fn`, retrying while another connection keeps the database busy beyond the busy timeout
+ * (a long import while a fit finishes), with doubling pauses up to `maxWaitMs` in total.
+ */
+export function withBusyRetry<T>(fn: () => T, maxWaitMs = 10 * 60_000): T {
+  const start = Date.now();
+  let pause = 100;
+  for (;;) {
+    try {
+      return fn();
+    } catch (error) {
+      if (!isBusyError(error) || Date.now() - start > maxWaitMs) throw error;
+      Atomics.wait(new Int32Array(new SharedArrayBuffer(4)), 0, 0, pause);
+      pause = Math.min(pause * 2, 5_000);
+    }
+  }
+}

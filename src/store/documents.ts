@@ -177,22 +177,36 @@ export function getDocument(store: Store, id: number): DocumentRecord | undefine
   return row ? toDocument(row) : undefined;
 }
 
+/** Id, decided language and text of every document of a study, in id order (the token step's input). */
+export function listDocumentTexts(store: Store, studyId: number): { ids: Int32Array; languages: (string | null)[]; texts: string[] } {
+  const rows = store.db.prepare('SELECT id, language, text FROM documents WHERE study_id = ? ORDER BY id').raw(true).all(studyId) as [number, string | null, string][];
+  const ids = new Int32Array(rows.length);
+  const languages: (string | null)[] = new Array(rows.length);
+  const texts: string[] = new Array(rows.length);
+  for (let i = 0; i < rows.length; i++) {
+    ids[i] = rows[i][0];
+    languages[i] = rows[i][1];
+    texts[i] = rows[i][2];
+  }
+  return { ids, languages, texts };
+}
+
 /** Included documents with tokens, in id order: the input of a fit. */
 export function listDocumentTokens(store: Store, studyId: number): DocumentTokens[] {
   const rows = store.db
     .prepare(
-      `SELECT id, vocabulary_language AS language, link_key, covariates, weight, tokens FROM documents
+      `SELECT id, vocabulary_language, link_key, covariates, weight, tokens FROM documents
        WHERE study_id = ? AND excluded IS NULL AND vocabulary_language IS NOT NULL AND tokens IS NOT NULL ORDER BY id`,
     )
-    .all(studyId) as { id: number; language: string; link_key: string | null; covariates: string; weight: number; tokens: Buffer }[];
-  return rows.map((r) => ({
-    id: r.id,
-    language: r.language,
-    linkKey: r.link_key,
-    covariates: JSON.parse(r.covariates) as Record<string, string | number | null>,
-    weight: r.weight,
-    tokens: int32FromBlob(r.tokens),
-  }));
+    .raw(true)
+    .all(studyId) as [number, string, string | null, string, number, Buffer][];
+  // Covariate rows repeat a handful of patterns: parse each distinct JSON text once.
+  const parsed = new Map<string, Record<string, string | number | null>>();
+  return rows.map((r) => {
+    let covariates = parsed.get(r[3]);
+    if (!covariates) parsed.set(r[3], (covariates = JSON.parse(r[3]) as Record<string, string | number | null>));
+    return { id: r[0], language: r[1], linkKey: r[2], covariates, weight: r[4], tokens: int32FromBlob(r[5]) };
+  });
 }
 
 /** Override the language of documents (source 'overridden', confidence 1); one transaction. */
@@ -205,6 +219,25 @@ export function overrideLanguages(store: Store, studyId: number, ids: readonly n
     for (const id of ids) n += stmt.run(language, language === null ? 'undetermined' : 'overridden', language === null ? 0 : 1, studyId, id).changes;
     return n;
   });
+}
+
+/**
+ * Where the declared language differs from the language written, decide by the text instead
+ * (source 'overridden'); all such documents of the study, or only `ids`. Returns the count changed.
+ */
+export function adoptWrittenLanguages(store: Store, studyId: number, ids?: readonly number[]): number {
+  // An empty id list (json_each of []) matches nothing; null means every document.
+  return inTransaction(
+    store,
+    () =>
+      store.db
+        .prepare(
+          `UPDATE documents SET language = written_language, language_source = 'overridden', confidence = 1
+           WHERE study_id = ? AND written_language IS NOT NULL AND (language IS NULL OR language <> written_language)
+             AND (? IS NULL OR id IN (SELECT value FROM json_each(?)))`,
+        )
+        .run(studyId, ids ? 1 : null, JSON.stringify(ids ?? [])).changes,
+  );
 }
 
 export interface LanguageSummaryRow {
@@ -255,10 +288,34 @@ export function languageSummary(store: Store, studyId: number): LanguageSummaryR
     .sort((a, b) => (a.language === null ? 1 : b.language === null ? -1 : b.documents - a.documents));
 }
 
-/** Counts of excluded documents per reason. */
-export function exclusionSummary(store: Store, studyId: number): Record<string, number> {
-  const rows = store.db.prepare('SELECT excluded, COUNT(*) AS n FROM documents WHERE study_id = ? AND excluded IS NOT NULL GROUP BY excluded').all(studyId) as { excluded: string; n: number }[];
+/** Counts of excluded documents per reason (of the whole study, or of one import). */
+export function exclusionSummary(store: Store, studyId: number, importId?: number): Record<string, number> {
+  const rows = (
+    importId === undefined
+      ? store.db.prepare('SELECT excluded, COUNT(*) AS n FROM documents WHERE study_id = ? AND excluded IS NOT NULL GROUP BY excluded').all(studyId)
+      : store.db.prepare('SELECT excluded, COUNT(*) AS n FROM documents WHERE study_id = ? AND import_id = ? AND excluded IS NOT NULL GROUP BY excluded').all(studyId, importId)
+  ) as { excluded: string; n: number }[];
   return Object.fromEntries(rows.map((r) => [r.excluded, r.n]));
+}
+
+/** Token ids of the given documents (those that have tokens), by document id. */
+export function documentTokensByIds(store: Store, ids: readonly number[]): Map<number, Int32Array> {
+  const out = new Map<number, Int32Array>();
+  if (ids.length === 0) return out;
+  const stmt = store.db.prepare('SELECT id, tokens FROM documents WHERE id IN (SELECT value FROM json_each(?)) AND tokens IS NOT NULL').raw(true);
+  // Chunks keep each JSON list small (common practice).
+  for (let i = 0; i < ids.length; i += 10_000) {
+    for (const [id, tokens] of stmt.all(JSON.stringify(ids.slice(i, i + 10_000))) as [number, Buffer][]) out.set(id, int32FromBlob(tokens));
+  }
+  return out;
+}
+
+/** Changes whenever the study's documents or settings change: count, newest id, last update. */
+export function studyChangeStamp(store: Store, studyId: number): string {
+  const row = store.db
+    .prepare('SELECT COUNT(d.id) AS n, COALESCE(MAX(d.id), 0) AS m, s.updated_at AS u FROM studies s LEFT JOIN documents d ON d.study_id = s.id WHERE s.id = ?')
+    .get(studyId) as { n: number; m: number; u: string | null };
+  return `${row.n}:${row.m}:${row.u}`;
 }
 
 /** Distinct covariate names and their observed values (up to `maxLevels` per name). */

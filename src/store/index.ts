@@ -1,7 +1,7 @@
 // Public surface of the store: the only code in Themata that speaks SQL (DESIGN §2).
 // Every function takes the Store from openStore(dataDir) first; multi-row writes are one
 // transaction each; wrap several calls in inTransaction() to make them one.
-export { openStore, inTransaction, DATABASE_FILE, type Store, type OpenStoreOptions } from './database.js';
+export { openStore, inTransaction, withBusyRetry, isBusyError, DATABASE_FILE, type Store, type OpenStoreOptions } from './database.js';
 export { migrate, schemaVersion, SCHEMA_VERSION, MIGRATIONS, type Migration } from './migrations.js';
 export { createStudy, getStudy, getStudyByName, listStudies, updateStudy, touchStudy, deleteStudy, type Study, type StudyListItem } from './studies.js';
 export { insertImport, setImportSummary, listImports, getImport, getImportBytes, sha256Hex, type ImportRecord } from './imports.js';
@@ -12,9 +12,13 @@ export {
   iterateDocuments,
   getDocument,
   listDocumentTokens,
+  listDocumentTexts,
   overrideLanguages,
+  adoptWrittenLanguages,
   languageSummary,
   exclusionSummary,
+  documentTokensByIds,
+  studyChangeStamp,
   covariateLevels,
   type NewDocument,
   type DocumentRecord,

@@ -132,7 +132,7 @@ export function deleteRun(store: Store, id: number): void {
   inTransaction(store, () => store.db.prepare('DELETE FROM runs WHERE id = ?').run(id));
 }
 
-/** Save a checkpoint; keeps only the newest `keep` checkpoints of the run (one transaction). */
+/** Save a checkpoint; keeps only the newest `keep` checkpoints of the run (two by default, so a crash while writing one leaves the previous; common practice). One transaction. */
 export function saveCheckpoint(store: Store, runId: number, sweep: number, bytes: Uint8Array, keep = 2): void {
   inTransaction(store, () => {
     store.db.prepare('INSERT OR REPLACE INTO run_checkpoints (run_id, sweep, bytes, created_at) VALUES (?, ?, ?, ?)').run(runId, sweep, Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength), now());

@@ -4,8 +4,9 @@
 // International (the ISO 639-3 Registration Authority, https://iso639-3.sil.org), written down
 // from memory, not generated from a downloaded copy; the `detector` column is the
 // individual-language ISO 639-3 code that the `franc` package (6.2.0) reports for the language
-// (checked against node_modules/franc/data.js and its script table), e.g. Mandarin `cmn` for
-// Chinese, Standard Arabic `arb` for Arabic. English names follow the ISO 639 reference names;
+// (checked against node_modules/franc/data.js and expressions.js), e.g. Mandarin `cmn` for
+// Chinese, Standard Arabic `arb` for Arabic, Tagalog `tgl` for Filipino. Welsh, Basque, Irish
+// and Icelandic are not among franc's languages; their column holds the plain ISO 639-3 code. English names follow the ISO 639 reference names;
 // the autonyms (names of a language in itself) are common practice in survey exports.
 //
 // Columns: [BCP 47 primary subtag, detector ISO 639-3 code, other accepted 3-letter codes
@@ -41,7 +42,7 @@ export const LANGUAGE_ROWS: readonly LanguageRow[] = [
   ['eu', 'eus', ['baq'], ['Basque'], ['euskara']],
   ['fa', 'pes', ['fas', 'per', 'prs'], ['Persian', 'Farsi', 'Dari'], ['فارسی']],
   ['fi', 'fin', [], ['Finnish'], ['suomi']],
-  ['fil', 'fil', ['tgl'], ['Filipino', 'Tagalog'], ['Wikang Filipino']],
+  ['fil', 'tgl', ['fil'], ['Filipino', 'Tagalog'], ['Wikang Filipino']],
   ['fr', 'fra', ['fre'], ['French'], ['français']],
   ['ga', 'gle', [], ['Irish', 'Irish Gaelic'], ['Gaeilge']],
   ['gl', 'glg', [], ['Galician'], ['galego']],

@@ -79,6 +79,10 @@ if (!haveBrowser && process.env.CI === 'true') {
       await page.waitForSelector('#language-counts');
       await shot('04-languages');
 
+      await page.click('nav.tabs >> text=Vocabulary');
+      await page.waitForSelector('#vocabulary-sizes');
+      await shot('04b-vocabulary');
+
       await page.click('nav.tabs >> text=Runs');
       await page.fill('input[name="themes"]', '8');
       await page.click('summary:has-text("More settings")');

@@ -5,6 +5,8 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { tempDir } from '../store/helpers.js';
 import { FIXTURE_FLAGS, surveyCsv, surveyRows } from '../services/survey-fixture.js';
+import { createFitRun, runFitJob } from '../../src/services/index.js';
+import { openStore, setRunStatus } from '../../src/store/index.js';
 import { cli } from './cli-harness.js';
 
 const BOM = [0xef, 0xbb, 0xbf];
@@ -61,6 +63,25 @@ describe('themata command line, end to end', () => {
     expect(d).toMatchObject({ run: 'small', themes: 3, sweeps: 40, languages: ['en', 'es'] });
     expect(d.heldOutDocuments).toBeGreaterThan(0);
     expect(d.logLikelihoodTrace.last).toBeGreaterThan(d.logLikelihoodTrace.first);
+  });
+
+  it('resumes an interrupted fit from its checkpoint', async () => {
+    const store = openStore(data);
+    try {
+      const run = createFitRun(store, 'Test survey', { themes: 2, sweeps: 30, burnIn: 5, checkpointEvery: 5, name: 'half' });
+      let sweep = 0;
+      await runFitJob({ store, runId: run.id, onProgress: (p) => (sweep = p.sweep ?? sweep), shouldStop: () => sweep >= 10 });
+      setRunStatus(store, run.id, 'interrupted');
+    } finally {
+      store.close();
+    }
+    const r = await cli(['--data', data, 'resume', '--study', 'Test survey', '--run', 'half']);
+    expect(r.stderr).toBe('');
+    expect(r.code).toBe(0);
+    expect(JSON.parse(r.stdout)).toMatchObject({ run: 'half', sweeps: 30 });
+    const again = await cli(['--data', data, 'resume', '--study', 'Test survey', '--run', 'half']);
+    expect(again.code).toBe(2);
+    expect(again.stderr).toMatch(/is finished/);
   });
 
   it('exports the five files with their headers, a BOM and the formula-injection guard', async () => {

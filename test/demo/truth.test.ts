@@ -98,3 +98,15 @@ describe('demo phrase material', () => {
     }
   });
 });
+
+describe('demo README', () => {
+  it('quotes the shipped counts and planted-effect shares of truth.json', async () => {
+    const { readFileSync } = await import('node:fs');
+    const { join } = await import('node:path');
+    const { DEMO_DIR } = await import('../../demo/generate.js');
+    const readme = readFileSync(join(DEMO_DIR, 'README.md'), 'utf8');
+    const n = (x: number) => x.toLocaleString('en-US');
+    expect(readme).toContain(`${n(truth.counts.answers)} original answers, ${n(truth.counts.translations)} translations, ${n(truth.counts.nonAnswers)} non-answers`);
+    for (const e of truth.effects) expect(readme).toContain(`| ${e.meanShareAtLevel.toFixed(2)} | ${e.meanShareElsewhere.toFixed(2)} |`);
+  });
+});

@@ -58,4 +58,25 @@ describe('cross-language partner retrieval', () => {
     expect(r.overall.meanReciprocalRank).toBeLessThan(4 * r.overall.chanceMeanReciprocalRank);
     expect(r.overall.precisionAt1).toBeLessThan(0.05);
   });
+
+  it('caps queries and candidates at random, always keeping the partner and adjusting chance', () => {
+    const rng = Xoshiro128.fromSeed(9);
+    const n = 300;
+    const mixtures = new Float64Array(2 * n * 4);
+    for (let g = 0; g < n; g++) {
+      dirichletInto(rng, [1, 1, 1, 1], mixtures, g * 4);
+      mixtures.copyWithin((n + g) * 4, g * 4, g * 4 + 4); // the partner has the same mixture
+    }
+    const docGroup = Array.from({ length: 2 * n }, (_, d) => d % n);
+    const docLanguage = Array.from({ length: 2 * n }, (_, d) => (d < n ? 0 : 1));
+    const r = crossLanguageAlignment({ K: 4, mixtures, docLanguage, docGroup }, { maxQueries: 50, maxCandidates: 40, seed: 3 });
+    for (const p of r.pairs) {
+      expect(p.queries).toBe(50);
+      expect(p.candidates).toBeGreaterThanOrEqual(40);
+      expect(p.candidates).toBeLessThanOrEqual(41);
+      expect(p.chancePrecisionAt1).toBeGreaterThanOrEqual(1 / 41);
+      expect(p.chancePrecisionAt1).toBeLessThanOrEqual(1 / 40);
+      expect(p.precisionAt1).toBe(1);
+    }
+  });
 });

@@ -1,3 +1,5 @@
+import { execFileSync } from 'node:child_process';
+import { fileURLToPath } from 'node:url';
 import { afterAll, describe, expect, it } from 'vitest';
 import { createParallelSampler, partitionGroups } from '../../src/model/parallel/index.js';
 import { createFastSampler } from '../../src/model/fast-sampler.js';
@@ -69,5 +71,54 @@ describe('parallel sampler', () => {
     serial.sweep(Xoshiro128.fromSeed(seed, 0));
     expect(Array.from(par.z)).toEqual(Array.from(serial.z));
     await par.dispose?.();
+  });
+
+  it('starts its workers under plain `node --import tsx` too, with the same draws as under vitest', async () => {
+    // The production start path (npm start, the CLI, bench) is node --import tsx, not vitest.
+    const code = `
+      import { buildCorpus } from './src/model/corpus.ts';
+      import { createParallelSampler } from './src/model/parallel/index.ts';
+      import { Xoshiro128 } from './src/model/rng.ts';
+      const docs = [];
+      for (let d = 0; d < 40; d++) docs.push({ language: d % 2, tokens: Int32Array.from({ length: 6 }, (_, i) => (d * 7 + i * 3) % 5), linkKey: d % 3 === 0 ? 'k' + (d >> 2) : null });
+      const { corpus } = buildCorpus({ languages: ['en', 'fr'], vocabSizes: [5, 5], documents: docs });
+      const priors = { K: 4, groupPattern: new Int32Array(corpus.numGroups), alpha: Float64Array.of(0.2, 0.4, 0.6, 0.8), beta: Float64Array.of(0.1, 0.3) };
+      const sampler = createParallelSampler(2)(corpus, new Uint16Array(corpus.words.length), priors);
+      const rng = Xoshiro128.fromSeed(12);
+      for (let t = 0; t < 10; t++) sampler.sweep(rng);
+      console.log(JSON.stringify(Array.from(sampler.z)));
+      await sampler.dispose();
+    `;
+    const root = fileURLToPath(new URL('../../', import.meta.url));
+    const out = execFileSync(process.execPath, ['--import', 'tsx', '--input-type=module', '-e', code], { cwd: root, encoding: 'utf8' });
+    const fromNode = JSON.parse(out.trim().split('\n').pop() ?? '[]') as number[];
+
+    const { buildCorpus } = await import('../../src/model/corpus.js');
+    const docs = [];
+    for (let d = 0; d < 40; d++) docs.push({ language: d % 2, tokens: Int32Array.from({ length: 6 }, (_, i) => (d * 7 + i * 3) % 5), linkKey: d % 3 === 0 ? 'k' + (d >> 2) : null });
+    const { corpus } = buildCorpus({ languages: ['en', 'fr'], vocabSizes: [5, 5], documents: docs });
+    const priors = { K: 4, groupPattern: new Int32Array(corpus.numGroups), alpha: Float64Array.of(0.2, 0.4, 0.6, 0.8), beta: Float64Array.of(0.1, 0.3) };
+    const sampler = two(corpus, new Uint16Array(corpus.words.length), priors);
+    const rng = Xoshiro128.fromSeed(12);
+    for (let t = 0; t < 10; t++) sampler.sweep(rng);
+    const inVitest = Array.from(sampler.z);
+    await sampler.dispose?.();
+    expect(fromNode.length).toBe(corpus.words.length);
+    expect(fromNode).toEqual(inVitest);
+  });
+
+  it('sends new priors to every worker: setPriors(B) then sweeping equals starting with B', async () => {
+    const { corpus, priors, z } = syntheticCorpus({ K: 5, groups: 200, patterns: 3, seed: 31 });
+    const other = { ...priors, alpha: priors.alpha.map((a, i) => (i % 2 === 0 ? a * 3 : a / 2)), beta: Float64Array.of(0.2, 0.02, 0.05) };
+    const runWith = async (switchPriors: boolean) => {
+      const sampler = createParallelSampler(2)(corpus, z.slice(), switchPriors ? priors : other);
+      if (switchPriors) sampler.setPriors(other);
+      const rng = Xoshiro128.fromSeed(5);
+      for (let t = 0; t < 4; t++) sampler.sweep(rng);
+      const out = Array.from(sampler.z);
+      await sampler.dispose?.();
+      return out;
+    };
+    expect(await runWith(true)).toEqual(await runWith(false));
   });
 });

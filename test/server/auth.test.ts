@@ -73,6 +73,34 @@ describe('accounts and sessions', () => {
     expect(change.status).toBe(403);
   });
 
+  it("every study route answers 404 (or 403) for another account's study (route table)", async () => {
+    const ana = await login('ana', 'correct horse battery');
+    const created = await postForm(t, '/studies', { name: 'Private to Ana', _csrf: ana.csrf }, ana.headers);
+    const sid = Number(created.headers.get('Location')!.match(/\/studies\/(\d+)/)![1]);
+    const ben = await login('ben', 'another long password');
+    const routes = t.app.routes.filter((r) => r.method !== 'ALL' && r.path.includes(':sid'));
+    expect(routes.length).toBeGreaterThan(15);
+    for (const r of routes) {
+      const path = r.path.replace(':sid', String(sid)).replace(/:[a-z]+/g, '1');
+      const init = r.method === 'GET' ? { headers: { ...HTML, ...ben.headers } } : { method: r.method, headers: { ...ben.headers, 'X-CSRF-Token': ben.csrf } };
+      const res = await t.app.request(path, init);
+      expect([403, 404], `${r.method} ${r.path}`).toContain(res.status);
+    }
+  });
+
+  it('lets the owner share a study, and only the owner', async () => {
+    const ana = await login('ana', 'correct horse battery');
+    const created = await postForm(t, '/studies', { name: 'Shared by Ana', _csrf: ana.csrf }, ana.headers);
+    const path = created.headers.get('Location')!;
+    const sid = Number(path.match(/\/studies\/(\d+)/)![1]);
+    const shared = await postForm(t, `/studies/${sid}/members`, { name: 'ben', role: 'editor', _csrf: ana.csrf }, ana.headers);
+    expect(shared.status).toBe(303);
+    const ben = await login('ben', 'another long password');
+    expect((await t.app.request(path, { headers: { ...HTML, ...ben.headers } })).status).toBe(200);
+    const reshare = await postForm(t, `/studies/${sid}/members`, { name: 'ana', role: 'viewer', _csrf: ben.csrf }, ben.headers);
+    expect(reshare.status).toBe(403);
+  });
+
   it("refuses one session's CSRF token in another session", async () => {
     const ana = await login('ana', 'correct horse battery');
     const ben = await login('ben', 'another long password');

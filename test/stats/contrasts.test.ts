@@ -118,6 +118,37 @@ describe('group contrasts', () => {
     }
   });
 
+  it('resamples link groups together: four identical copies per group double the interval width', () => {
+    // Each of 300 answers per level appears 4 times (one link group = 4 documents with one θ).
+    // Independent information is 300 answers, not 1200, so the honest standard error is
+    // √4 = 2 times the naive one (Davison & Hinkley 1997, §3.8, cluster resampling).
+    const base = synthetic(31, 300);
+    const D = base.theta.D * 4;
+    const theta = new Float64Array(D * 3);
+    const levelOfDoc = new Int32Array(D);
+    const clusterOfDoc = new Int32Array(D);
+    for (let d = 0; d < D; d++) {
+      const src = d >> 2;
+      theta.set((base.theta.samples[0] as Float64Array).subarray(src * 3, src * 3 + 3), d * 3);
+      levelOfDoc[d] = base.covariate.kind === 'categorical' ? base.covariate.levelOfDoc[src] : 0;
+      clusterOfDoc[d] = src;
+    }
+    const covariate: ContrastCovariate = { name: 'region', kind: 'categorical', levels: ['north', 'south'], levelOfDoc };
+    const naive = groupContrasts({ K: 3, D, samples: [theta] }, covariate, { draws: 2000, seed: 4 });
+    const clustered = groupContrasts({ K: 3, D, samples: [theta] }, covariate, { draws: 2000, seed: 4, clusterOfDoc });
+    const single = groupContrasts(base.theta, base.covariate, { draws: 2000, seed: 4 });
+    const width = (r: typeof naive) => r.shares[0].high - r.shares[0].low;
+    expect(width(clustered) / width(naive)).toBeGreaterThan(1.75);
+    expect(width(clustered) / width(naive)).toBeLessThan(2.25);
+    expect(width(clustered) / width(single)).toBeGreaterThan(0.9);
+    expect(width(clustered) / width(single)).toBeLessThan(1.1);
+    expect(clustered.shares[0].share).toBeCloseTo(single.shares[0].share, 12);
+    // With clusters and the random-group cap together, the width stays honest.
+    const capped = groupContrasts({ K: 3, D, samples: [theta] }, covariate, { draws: 2000, seed: 4, clusterOfDoc, maxResamplingUnits: 100 });
+    expect(width(capped) / width(single)).toBeGreaterThan(0.85);
+    expect(width(capped) / width(single)).toBeLessThan(1.15);
+  });
+
   it('finds a planted difference and flags it after false-discovery control, but not a null one', () => {
     const data = synthetic(11, 400);
     const res = groupContrasts(data.theta, data.covariate, { weights: data.weights, draws: 400, seed: 2 });

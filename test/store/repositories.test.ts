@@ -15,7 +15,8 @@ function doc(rowId: string, language: string | null, extra: Partial<S.NewDocumen
 describe('studies, imports and documents', () => {
   it('lists studies with sizes, languages found and last activity', () => {
     const a = S.createStudy(ctx.store, { name: 'Alpha', languages: ['en', 'es'] });
-    S.createStudy(ctx.store, { name: 'Beta' });
+    const beta = S.createStudy(ctx.store, { name: 'Beta' });
+    ctx.store.db.prepare("UPDATE studies SET updated_at = '2020-01-01T00:00:00.000Z' WHERE id = ?").run(beta.id);
     const imp = S.insertImport(ctx.store, { studyId: a.id, fileName: 'a.csv', format: 'csv', bytes: new TextEncoder().encode('id,answer\n1,hi\n'), encoding: 'UTF-8', mapping });
     S.insertDocuments(ctx.store, a.id, imp, [doc('1', 'en'), doc('2', 'es'), doc('3', null)]);
     const list = S.listStudies(ctx.store);
@@ -56,6 +57,9 @@ describe('studies, imports and documents', () => {
     expect(page.total).toBe(5);
     expect(page.rows.map((d) => d.rowId)).toEqual(['2']);
     expect(S.exclusionSummary(ctx.store, st.id)).toEqual({ undetermined: 1 });
+    // Deciding by the text where it disagrees with the declaration: only document 5 has a written language that differs.
+    expect(S.adoptWrittenLanguages(ctx.store, st.id)).toBe(1);
+    expect(S.listDocuments(ctx.store, st.id, { source: 'overridden' }).rows.map((d) => [d.rowId, d.language])).toEqual([['5', 'nl']]);
   });
 
   it('summarises languages with sources, confidence bins and disagreements, and records overrides', () => {

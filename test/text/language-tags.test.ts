@@ -78,6 +78,7 @@ describe('toIso6393', () => {
     ['sw', 'swh'],
     ['de-AT', 'deu'],
     ['French', 'fra'],
+    ['fil', 'tgl'],
   ])('gives the detector code for %j', (tag, expected) => expect(toIso6393(tag)).toBe(expected));
 
   it('returns null for an unknown subtag', () => expect(toIso6393('xx')).toBeNull());

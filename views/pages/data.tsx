@@ -151,6 +151,8 @@ export function MappingPage(props: {
   format: string;
   assumed: string;
   rows: number;
+  /** Rows looked at for the suggestions. */
+  sampled: number;
   columns: readonly MappingColumn[];
   roles: Record<string, string>;
   preview: readonly string[][];
@@ -172,7 +174,7 @@ export function MappingPage(props: {
             <tr>
               <th scope="col">Column</th>
               <th scope="col">Use as</th>
-              <th scope="col" class="num">Filled</th>
+              <th scope="col" class="num">{props.sampled < props.rows ? `Filled (first ${count(props.sampled)} rows)` : 'Filled'}</th>
               <th scope="col" class="num">Distinct</th>
               <th scope="col">Examples</th>
             </tr>

@@ -26,6 +26,8 @@ export interface VocabularyPageProps {
     collocationMinCount: number;
   };
   readonly excluded: Record<string, number>;
+  /** The standard lists applied to this language, shown so a researcher knows what is dropped. */
+  readonly standard: { stemmer: string | null; stopWords: readonly string[]; fillers: readonly string[]; nonAnswers: readonly string[]; kept: readonly string[] };
   readonly canEdit: boolean;
   readonly message?: string;
 }
@@ -97,6 +99,25 @@ export function VocabularyPage(props: VocabularyPageProps) {
             )}
           </section>
           <section>
+            <h2>Words ignored in {props.language}</h2>
+            <p class="hint">Stemmer: {props.standard.stemmer ?? 'none (words are kept as written)'}.</p>
+            <details class="numbers">
+              <summary>{props.standard.stopWords.length} standard stop words (open multilingual list)</summary>
+              <p dir="auto">{props.standard.stopWords.join(', ')}</p>
+            </details>
+            {props.standard.fillers.length > 0 && (
+              <details class="numbers">
+                <summary>{props.standard.fillers.length} survey filler words</summary>
+                <p dir="auto">{props.standard.fillers.join(', ')}</p>
+              </details>
+            )}
+            {props.standard.nonAnswers.length > 0 && (
+              <details class="numbers">
+                <summary>{props.standard.nonAnswers.length} whole answers treated as non-answers</summary>
+                <p dir="auto">{props.standard.nonAnswers.join(' · ')}</p>
+              </details>
+            )}
+            {props.standard.kept.length > 0 && <p class="hint">Kept although on the standard list, because they name survey themes: {props.standard.kept.join(', ')}.</p>}
             <h2>The study's own stop words</h2>
             <p class="hint">Words to ignore on top of the standard stop-word list of each language and the survey fillers Themata already knows ("n/a", "nothing", "don't know"…). One per line.</p>
             <form method="post" action={`${base}/words`} class="stack">

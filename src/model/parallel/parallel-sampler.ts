@@ -109,7 +109,7 @@ class ParallelSampler implements Sampler {
   }
 
   wordTopicCounts(): Int32Array {
-    return this.state.nkw;
+    return this.state.denseCounts();
   }
 
   topicTotals(): Int32Array {

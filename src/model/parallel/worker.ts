@@ -7,7 +7,7 @@ import { FastState } from '../fast-state.js';
 import { createScratch, sweepGroups, type FastScratch } from '../fast-sweep.js';
 import { Xoshiro128 } from '../rng.js';
 import {
-  ARG, CMD, CMD_EXIT, CMD_INIT, CMD_MERGE, CMD_PRIORS, CMD_SWEEP, CTRL_SLOTS, DONE, GEN, LOG_LENGTH,
+  ARG, CMD, CMD_EXIT, CMD_INIT, CMD_MERGE, CMD_PRIORS, CMD_SWEEP, DONE, GEN, LOG_LENGTH,
   STATUS, STATUS_ERROR, STATUS_OK, type InitMessage, type WorkerBoot,
 } from './protocol.js';
 import { mergeOtherLogs } from './merge.js';
@@ -25,7 +25,8 @@ function run(cmd: number): void {
     const received = receiveMessageOnPort(boot.port);
     if (!received) throw new Error('Parallel sampler: the worker found no initialisation message.');
     job = received.message as InitMessage;
-    state = new FastState(job.corpus, job.z, { K: job.K, groupPattern: job.groupPattern, alpha: job.alpha, beta: job.beta });
+    // Workers never expose counts, so they keep no dense table.
+    state = new FastState(job.corpus, job.z, { K: job.K, groupPattern: job.groupPattern, alpha: job.alpha, beta: job.beta }, false);
     if (scratch === null || scratch.ngk.length !== job.K) scratch = createScratch(job.K);
     return;
   }
@@ -57,4 +58,3 @@ for (;;) {
   Atomics.store(ctrl, DONE, seen);
   Atomics.notify(ctrl, DONE);
 }
-void CTRL_SLOTS;

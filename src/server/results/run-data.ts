@@ -4,7 +4,8 @@
 // cache keeps page latency low on large studies; contrasts are cached per covariate.
 import { contrastCovariates, loadRunModel, overallShares, runContrasts, themeWords, type RunModel, type ThemeWord } from '../../services/index.js';
 import type { ContrastResult } from '../../stats/index.js';
-import { getThemeLabels, iterateDocuments, type Store } from '../../store/index.js';
+import { contrastKey } from '../../jobs/index.js';
+import { getThemeLabels, iterateDocuments, loadJsonResult, type Store } from '../../store/index.js';
 
 export interface FittedAnswer {
   readonly id: number;
@@ -30,8 +31,17 @@ export interface RunData {
   readonly dominant: Int32Array;
   readonly covariateNames: string[];
   topWords(k: number, language: string, n: number): ThemeWord[];
-  contrast(by: string, draws?: number): ContrastResult;
+  /** Group contrasts: stored by the fit worker, else computed now (and kept). */
+  contrast(by: string): ContrastResult;
+  /** Categorical covariates and their values among the fitted answers (up to 50 each). */
+  levels(): { name: string; values: string[] }[];
+  /** Rendered pages, keyed by the caller; emptied when labels change. */
+  readonly pages: Map<string, string>;
 }
+
+/** Draws for contrasts computed while a page waits (runs fitted outside the workbench). */
+const ON_DEMAND_DRAWS = 200;
+const MAX_PAGES = 500; // common practice: bounded memory for cached pages per run
 
 const MAX_CACHED = 4; // common practice: a few runs open at once on a lab server
 
@@ -61,7 +71,15 @@ export class RunDataCache {
     const labels = getThemeLabels(this.store, runId);
     const arr = data.model.labels as string[];
     for (let k = 0; k < arr.length; k++) arr[k] = labels.get(k) ?? `Theme ${k + 1}`;
-    (data as { contrasts?: Map<string, ContrastResult> }).contrasts?.clear();
+    data.pages.clear();
+  }
+
+  /** Remember a rendered page of this run. */
+  remember(runId: number, key: string, html: string): void {
+    const data = this.entries.get(runId);
+    if (!data) return;
+    if (data.pages.size >= MAX_PAGES) data.pages.clear();
+    data.pages.set(key, html);
   }
 
   forget(runId: number): void {
@@ -116,7 +134,8 @@ export class RunDataCache {
     const words = new Map<string, ThemeWord[]>();
     const contrasts = new Map<string, ContrastResult>();
     const covariateNames = contrastCovariates(store, model.run.studyId);
-    const data: RunData & { contrasts: Map<string, ContrastResult> } = {
+    let levels: { name: string; values: string[] }[] | undefined;
+    const data: RunData = {
       model,
       answers,
       docLanguage,
@@ -125,18 +144,38 @@ export class RunDataCache {
       balance,
       dominant,
       covariateNames,
-      contrasts,
+      pages: new Map(),
       topWords(k, language, n) {
         const key = `${k}|${language}`;
         let list = words.get(key);
         if (!list || list.length < n) words.set(key, (list = themeWords(model, k, language, Math.max(n, 30))));
         return list.slice(0, n);
       },
-      contrast(by, draws = 400) {
-        const key = `${by}|${draws}`;
-        let res = contrasts.get(key);
-        if (!res) contrasts.set(key, (res = runContrasts(store, model, { by, draws })));
+      contrast(by) {
+        let res = contrasts.get(by);
+        if (!res) {
+          res = loadJsonResult<ContrastResult>(store, runId, contrastKey(by)) ?? runContrasts(store, model, { by, draws: ON_DEMAND_DRAWS });
+          contrasts.set(by, res);
+        }
         return res;
+      },
+      levels() {
+        if (levels) return levels;
+        const found = new Map<string, Set<string>>();
+        const numeric = new Set<string>();
+        for (const a of answers) {
+          for (const [name, v] of Object.entries(a.covariates)) {
+            if (v === null || v === '') continue;
+            if (typeof v === 'number') numeric.add(name);
+            let set = found.get(name);
+            if (!set) found.set(name, (set = new Set()));
+            if (set.size < 50) set.add(String(v));
+          }
+        }
+        levels = [...found.entries()]
+          .filter(([name]) => !numeric.has(name))
+          .map(([name, set]) => ({ name, values: [...set].sort((x, y) => x.localeCompare(y, undefined, { numeric: true })) }));
+        return levels;
       },
     };
     return data;

@@ -7,7 +7,7 @@ import { readInputTable } from '../../services/text-pipeline.js';
 import { addStudyMember, getAccountByName, listImports, listStudyMembers, studyRole, type Study } from '../../store/index.js';
 import { InputError, type Table } from '../../text/types.js';
 import { frame, studyFor } from '../access.js';
-import { mappingFromRoles, profileColumns, ROLE_LABELS, type ColumnRole } from '../column-roles.js';
+import { mappingFromRoles, PROFILE_ROWS, profileColumns, ROLE_LABELS, type ColumnRole } from '../column-roles.js';
 import { renderPage } from '../render.js';
 import type { AppEnv } from '../types.js';
 import { PendingUploads } from '../uploads.js';
@@ -88,6 +88,7 @@ export function dataRoutes(): Hono<AppEnv> {
         format={table.format}
         assumed={describeAssumed(table)}
         rows={table.rows.length}
+        sampled={Math.min(table.rows.length, PROFILE_ROWS)}
         columns={profiles}
         roles={ROLE_LABELS}
         preview={table.rows.slice(0, 8)}

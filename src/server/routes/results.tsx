@@ -7,11 +7,12 @@ import { ChecksPage } from '../../../views/pages/checks.js';
 import { ContrastsPage } from '../../../views/pages/contrasts.js';
 import { LabelForm, ThemePage, ThemesPage } from '../../../views/pages/themes.js';
 import { runChecks, type RunChecks } from '../../services/index.js';
-import { covariateLevels, loadJsonResult, saveResults, setThemeLabel, studyRole, type Run, type Study } from '../../store/index.js';
+import { checksProps } from '../results/checks-view.js';
+import { loadJsonResult, saveResults, setThemeLabel, studyRole, type Run, type Study } from '../../store/index.js';
 import { finishedRunFor, frame, studyFor } from '../access.js';
 import { renderFragment, renderPage } from '../render.js';
 import { markWords } from '../results/mark.js';
-import type { RunData, RunDataCache } from '../results/run-data.js';
+import type { RunDataCache } from '../results/run-data.js';
 import type { AppEnv } from '../types.js';
 import { queryInt, text } from './forms.js';
 
@@ -42,7 +43,27 @@ export function resultRoutes(cache: RunDataCache): Hono<AppEnv> {
     return { study, run, data, base: `/studies/${study.id}/runs/${run.id}` };
   }
 
-  app.get('/studies/:sid/runs/:rid/themes', (c) => {
+  /**
+   * Results of a finished run do not change except their labels, so a rendered page is kept per
+   * run, address, user and CSRF token (the page carries the token) until a label changes.
+   */
+  function cached(handler: (c: Context<AppEnv>) => Promise<Response>) {
+    return async (c: Context<AppEnv>) => {
+      const { run, data } = load(c);
+      const url = new URL(c.req.url);
+      const key = `${c.get('user').id ?? 'local'}|${c.get('csrf')}|${url.pathname}${url.search}`;
+      const hit = data.pages.get(key);
+      if (hit !== undefined) return c.html(hit);
+      const res = await handler(c);
+      if (res.status === 200) {
+        const html = await res.clone().text();
+        cache.remember(run.id, key, html);
+      }
+      return res;
+    };
+  }
+
+  app.get('/studies/:sid/runs/:rid/themes', cached(async (c) => {
     const { study, run, data, base } = load(c);
     const { model } = data;
     const L = model.languages.length;
@@ -67,7 +88,7 @@ export function resultRoutes(cache: RunDataCache): Hono<AppEnv> {
       c,
       <ThemesPage frame={frame(c, `Themes · ${run.name}`, { study, run, active: 'themes' })} base={base} languages={model.languages} rows={rows} canEdit={canEdit(c, study)} stabilityNote={stabilityNote} sort={c.req.query('sort') ?? ''} />,
     );
-  });
+  }));
 
   app.post('/studies/:sid/runs/:rid/themes/:k/label', async (c) => {
     const { run, data, base } = load(c, 'write');
@@ -85,11 +106,11 @@ export function resultRoutes(cache: RunDataCache): Hono<AppEnv> {
     return c.redirect(back && new URL(back).pathname.startsWith(base) ? new URL(back).pathname : `${base}/themes`, 303);
   });
 
-  app.get('/studies/:sid/runs/:rid/themes/:k', (c) => {
+  app.get('/studies/:sid/runs/:rid/themes/:k', cached(async (c) => {
     const { study, run, data, base } = load(c);
     const { model } = data;
     const k = Number(c.req.param('k'));
-    if (!/^\d+$/.test(c.req.param('k')) || k >= model.K) throw new HTTPException(404, { message: 'There is no such theme.' });
+    if (!/^\d+$/.test(c.req.param('k') ?? '') || k >= model.K) throw new HTTPException(404, { message: 'There is no such theme.' });
     const K = model.K;
     const words = model.languages.map((language) => ({
       language,
@@ -135,9 +156,9 @@ export function resultRoutes(cache: RunDataCache): Hono<AppEnv> {
         groups={groups}
       />,
     );
-  });
+  }));
 
-  app.get('/studies/:sid/runs/:rid/contrasts', (c) => {
+  app.get('/studies/:sid/runs/:rid/contrasts', cached(async (c) => {
     const { study, run, data, base } = load(c);
     const covariates = data.covariateNames;
     const preferred = run.settings.covariates.find((n) => covariates.includes(n)) ?? covariates.find((n) => n !== 'language' && n !== 'question') ?? covariates[0];
@@ -161,7 +182,7 @@ export function resultRoutes(cache: RunDataCache): Hono<AppEnv> {
       .map((d) => {
         const flip = d.levelA !== a;
         return {
-          theme: `${d.theme + 1}. ${d.themeLabel}`,
+          theme: `${d.theme + 1}. ${data.model.labels[d.theme]}`,
           difference: flip ? -d.difference : d.difference,
           low: flip ? -d.high : d.low,
           high: flip ? -d.low : d.high,
@@ -188,9 +209,9 @@ export function resultRoutes(cache: RunDataCache): Hono<AppEnv> {
         draws={res.draws}
       />,
     );
-  });
+  }));
 
-  app.get('/studies/:sid/runs/:rid/answers', (c) => {
+  app.get('/studies/:sid/runs/:rid/answers', cached(async (c) => {
     const { study, run, data, base } = load(c);
     const { model } = data;
     const K = model.K;
@@ -226,7 +247,6 @@ export function resultRoutes(cache: RunDataCache): Hono<AppEnv> {
         mix: Array.from({ length: K }, (_, k) => ({ k, label: model.labels[k], share: model.thetaGroups[g * K + k] })).sort((x, y) => y.share - x.share),
       };
     });
-    const levels = covariateLevels(c.get('deps').store, study.id, 50);
     return renderPage(
       c,
       <AnswersPage
@@ -234,7 +254,7 @@ export function resultRoutes(cache: RunDataCache): Hono<AppEnv> {
         base={base}
         languages={model.languages}
         labels={model.labels}
-        covariates={Object.entries(levels).filter(([, v]) => !v.numeric).map(([name, v]) => ({ name, values: v.values }))}
+        covariates={data.levels()}
         filter={{ language, by, level, theme, q }}
         answers={answers}
         total={matches.length}
@@ -242,7 +262,7 @@ export function resultRoutes(cache: RunDataCache): Hono<AppEnv> {
         limit={ANSWERS_PAGE}
       />,
     );
-  });
+  }));
 
   app.get('/studies/:sid/runs/:rid/checks', (c) => {
     const { study, run, data } = load(c);
@@ -256,41 +276,4 @@ export function resultRoutes(cache: RunDataCache): Hono<AppEnv> {
   });
 
   return app;
-}
-
-function checksProps(data: RunData, checks: RunChecks) {
-  const { model } = data;
-  const K = model.K;
-  const d = model.diagnostics;
-  const facts = [
-    { label: 'Themes', value: String(K), help: 'Number of themes of this run' },
-    { label: 'Answers fitted', value: d.documents.toLocaleString('en-GB'), help: 'Answers used to fit the model' },
-    { label: 'Held out', value: d.heldOutDocuments.toLocaleString('en-GB'), help: 'Answers kept aside for the checks' },
-    { label: 'Words', value: d.tokens.toLocaleString('en-GB'), help: 'Word occurrences in the fitted answers' },
-    { label: 'Sweeps', value: String(d.sweeps), help: 'Passes of the sampler over every word' },
-    { label: 'Sampler', value: d.sampler, help: 'Which Gibbs sampler ran' },
-    { label: 'Fit time', value: `${d.seconds.toFixed(1)} s`, help: 'Wall-clock time of the fit' },
-    { label: 'Held-out perplexity', value: checks.perplexity ? checks.perplexity.perplexity.toFixed(1) : '—', help: 'Document-completion perplexity on held-out answers (Wallach et al., ICML 2009); lower is better' },
-    { label: 'Mean coherence (NPMI)', value: Number.isFinite(checks.coherence.meanNpmi) ? checks.coherence.meanNpmi.toFixed(3) : '—', help: 'Mean NPMI of top words over themes and languages (Lau, Newman & Baldwin 2014)' },
-    { label: 'Stability', value: checks.stability ? checks.stability.overall.toFixed(2) : '—', help: 'Mean similarity of matched themes across seeds (Greene, O’Callaghan & Cunningham 2014)' },
-  ];
-  const coherence = model.labels.map((label, k) => {
-    const v = checks.coherence.themes.filter((t) => t.theme === k && Number.isFinite(t.npmi)).map((t) => t.npmi);
-    return { label: `${k + 1}. ${label}`, value: v.length ? v.reduce((a, b) => a + b, 0) / v.length : NaN };
-  });
-  const alignment = (checks.alignment?.pairs ?? []).map((p) => ({ pair: `${p.from} → ${p.to}`, precisionAt1: p.precisionAt1, chance: p.chancePrecisionAt1, mrr: p.meanReciprocalRank, chanceMrr: p.chanceMeanReciprocalRank }));
-  const stability = checks.stability ? model.labels.map((label, k) => ({ label: `${k + 1}. ${label}`, value: checks.stability!.perTheme[k] })) : [];
-  const P = model.alpha.length / K;
-  const alpha = model.labels.map((label, k) => {
-    let s = 0;
-    for (let p = 0; p < P; p++) s += model.alpha[p * K + k];
-    return { label: `${k + 1}. ${label}`, value: s / Math.max(1, P) };
-  });
-  const beta = model.languages.map((language, l) => ({ language, value: model.beta[l] }));
-  const F = model.lambda ? model.lambda.length / K : 0;
-  const lambda = model.lambda
-    ? Array.from({ length: F }, (_, f) => ({ feature: model.features.names[f] ?? `feature ${f}`, values: Array.from({ length: K }, (_, k) => model.lambda![k * F + f]) }))
-    : [];
-  const missing = [...checks.notes];
-  return { trace: d.trace, facts, coherence: coherence.filter((x) => Number.isFinite(x.value)), alignment, stability, alpha, beta, lambda, labels: model.labels, missing };
 }

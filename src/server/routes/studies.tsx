@@ -2,7 +2,7 @@
 import { Hono, type Context } from 'hono';
 import { StudiesPage } from '../../../views/pages/studies.js';
 import { addStudyMember, createStudy, getStudyByName, listStudies } from '../../store/index.js';
-import { frame } from '../access.js';
+import { frame, studyFor } from '../access.js';
 import { renderPage } from '../render.js';
 import type { AppEnv } from '../types.js';
 import { parseLanguageList } from './forms.js';
@@ -39,6 +39,6 @@ export function studyRoutes(): Hono<AppEnv> {
     if (user.id !== null) addStudyMember(store, study.id, user.id, 'owner');
     return c.redirect(`/studies/${study.id}/data`, 303);
   });
-  app.get('/studies/:sid', (c) => c.redirect(`/studies/${c.req.param('sid')}/data`, 303));
+  app.get('/studies/:sid', (c) => c.redirect(`/studies/${studyFor(c).id}/data`, 303));
   return app;
 }

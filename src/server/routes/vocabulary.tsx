@@ -3,6 +3,7 @@
 import { Hono } from 'hono';
 import { VocabularyPage } from '../../../views/pages/vocabulary.js';
 import { pipelineSettings } from '../../services/text-pipeline.js';
+import { openStopWords, stemmerName, surveyLexicon } from '../../text/index.js';
 import { rebuildVocabulary } from '../../services/vocabulary.js';
 import { exclusionSummary, getStudyWordLists, setStudyWordList, studyRole, topWords, updateStudy, vocabularySizes } from '../../store/index.js';
 import { frame, studyFor } from '../access.js';
@@ -63,6 +64,13 @@ export function vocabularyRoutes(): Hono<AppEnv> {
           collocationMinCount: s.collocationMinCount,
         }}
         excluded={exclusionSummary(store, study.id)}
+        standard={{
+          stemmer: language ? (s.stemming ? stemmerName(language) : null) : null,
+          stopWords: language ? openStopWords(language) : [],
+          fillers: (language && surveyLexicon(language)?.fillers) || [],
+          nonAnswers: (language && surveyLexicon(language)?.nonAnswers) || [],
+          kept: (language && surveyLexicon(language)?.keep) || [],
+        }}
         canEdit={role === 'owner' || role === 'editor'}
         message={c.req.query('saved') ? 'Saved. The vocabulary was rebuilt; new runs use it (finished runs keep theirs).' : undefined}
       />,

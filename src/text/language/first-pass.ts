@@ -29,11 +29,14 @@ export interface FirstPass {
 const NONE: FirstPass = { letters: 0, language: null, confidence: 0, confident: false, candidates: [] };
 
 /**
- * Script, then trigrams, for one text; `study` holds table keys (see languageKey). With
- * `deferShort`, texts too short to be confident skip the trigram step (the costliest part of
- * the first pass); the caller runs it later only if the study model cannot decide.
+ * When to skip the trigram step (the costliest part of the first pass) and leave the choice to
+ * the study model, running it later only if that model cannot decide: 'never', for 'short'
+ * texts (too short to be confident anyway), or 'always'.
  */
-export function firstPass(text: string, study: readonly string[], deferShort = false): FirstPass {
+export type TrigramDeferral = 'never' | 'short' | 'always';
+
+/** Script, then trigrams, for one text; `study` holds table keys (see languageKey). */
+export function firstPass(text: string, study: readonly string[], defer: TrigramDeferral = 'never'): FirstPass {
   if (study.length === 0) return NONE;
   const normal = text.normalize('NFKC');
   const { counts, letters } = countScripts(normal);
@@ -45,7 +48,7 @@ export function firstPass(text: string, study: readonly string[], deferShort = f
   // Mixed-script answers: the majority script's share bounds the confidence.
   const share = (counts[script] ?? 0) / letters;
   if (candidates.length === 1) return { letters, language: candidates[0], confidence: round(share), confident: true, candidates };
-  if (deferShort && letters < CONFIDENT_LETTERS && script !== 'Han') {
+  if (script !== 'Han' && (defer === 'always' || (defer === 'short' && letters < CONFIDENT_LETTERS))) {
     return { letters, language: null, confidence: 0, confident: false, candidates, deferred: true };
   }
   const guess = trigramGuess(normal, candidates);

@@ -21,8 +21,17 @@ export interface IdentifyOptions {
    * documents out, e.g. to measure accuracy on texts the model has never seen.
    */
   learnFrom?: boolean[];
+  /**
+   * Trigram detection runs on an even sample of at most this many documents (default 20,000);
+   * the study model trained on them decides the rest. Keeps large imports fast.
+   */
+  maxTrigramDocuments?: number;
 }
 
+/** Trigram detection runs on at most about this many documents of a study (common practice). */
+const MAX_TRIGRAM_DOCUMENTS = 20_000;
+/** Weak labels (studies of short answers only) come from texts with at least this many letters (common practice). */
+const WEAK_LABEL_LETTERS = 12;
 /** Below this posterior the adaptive pass leaves a text undetermined (common practice). */
 const MIN_POSTERIOR = 0.3;
 /** The study model relabels a document only when this sure (common practice). */
@@ -45,7 +54,10 @@ export function identifyLanguages(texts: string[], options: IdentifyOptions): La
     return tag === undefined || tag.trim() === '' ? undefined : languageKey(tag);
   });
   const learnable = (i: number): boolean => options.learnFrom === undefined || options.learnFrom[i] === true;
-  const first = texts.map((text) => firstPass(text, study, true));
+  // Large studies: trigram detection on an even sample of documents trains the study model,
+  // which then decides the rest (their source is 'adapted').
+  const stride = Math.max(1, Math.ceil(texts.length / Math.max(1, options.maxTrigramDocuments ?? MAX_TRIGRAM_DOCUMENTS)));
+  const first = texts.map((text, i) => firstPass(text, study, i % stride === 0 ? 'short' : 'always'));
 
   // Learn the study's own usage from what is already certain: trusted declarations and confident
   // detections, on top of the open stop-word lists as prior knowledge.
@@ -59,11 +71,23 @@ export function identifyLanguages(texts: string[], options: IdentifyOptions): La
   const mix = new Map<string, number>();
   for (let i = 0; i < texts.length; i++) {
     const label = fixed[i] ? declared[i] : first[i].confident ? (first[i].language ?? undefined) : undefined;
-    // The prior is the study's language mix as the sure documents show it.
-    if (label !== undefined) mix.set(label, (mix.get(label) ?? 0) + 1);
     if (label === undefined || !learnable(i)) continue;
+    // The prior is the study's language mix as the sure documents show it.
+    mix.set(label, (mix.get(label) ?? 0) + 1);
     if (first[i].candidates.length >= 2) model.learn(encoded[i], label);
     learned[i] = label;
+  }
+  // A study of short answers only has no confident document to learn from: start instead from
+  // the trigram guesses on its longer short answers (weak labels that self-training revises).
+  if (study.filter((language) => model.wordsLearned(language) >= MIN_LEARNED_WORDS).length < 2) {
+    for (let i = 0; i < texts.length; i++) {
+      if (learned[i] !== undefined || fixed[i] || !learnable(i) || first[i].candidates.length < 2 || first[i].letters < WEAK_LABEL_LETTERS) continue;
+      const guess = first[i].deferred === true ? firstPass(texts[i], study) : first[i];
+      if (guess.language === null) continue;
+      model.learn(encoded[i], guess.language);
+      learned[i] = guess.language;
+      mix.set(guess.language, (mix.get(guess.language) ?? 0) + 1);
+    }
   }
   model.setLanguageMix(mix);
 

@@ -112,8 +112,16 @@ export const LANGUAGES: Readonly<Record<string, LanguageInfo>> = {
  * features (no trigram model, no stemmer).
  */
 export function languageKey(tag: string): string {
-  return normalizeLanguageTag(tag) ?? (tag.trim().toLowerCase().split(/[-_]/)[0] ?? '');
+  let key = keys.get(tag);
+  if (key === undefined) {
+    key = normalizeLanguageTag(tag) ?? (tag.trim().toLowerCase().split(/[-_]/)[0] ?? '');
+    // Tags repeat (one per document): remember them, within reason.
+    if (keys.size < 10_000) keys.set(tag, key);
+  }
+  return key;
 }
+
+const keys = new Map<string, string>();
 
 export function languageInfo(tag: string): LanguageInfo | undefined {
   return LANGUAGES[languageKey(tag)];

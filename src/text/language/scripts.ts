@@ -60,8 +60,8 @@ export function countScripts(text: string): ScriptCounts {
         }
       }
     }
+    // Marks of script "Inherited" (UAX #24) and letters of unlisted scripts count as letters only.
     if (script === undefined) continue;
-    // Combining marks inherit the script of their base letter (UAX #24 §5.2 "Inherited").
     counts[script] = (counts[script] ?? 0) + 1;
     last = script;
   }

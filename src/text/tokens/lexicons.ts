@@ -21,6 +21,8 @@ export interface SurveyLexicon {
   readonly nonAnswers: readonly string[];
   /** Words without a theme, added to the stop words. */
   readonly fillers: readonly string[];
+  /** Words of the open stop-word list that name survey themes: taken off the stop words. */
+  readonly keep?: readonly string[];
 }
 
 export const SURVEY_LEXICONS: readonly SurveyLexicon[] = [de, en, es, fr, it, ja, ko, nl, pt, ru, sv, zh];

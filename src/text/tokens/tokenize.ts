@@ -24,6 +24,7 @@ const FALLBACK = /[\p{L}\p{M}]+(?:'[\p{L}\p{M}]+)*|\p{N}+(?:[.,]\p{N}+)*|\S/gu;
 const ELIDING = new Set(['fr', 'it', 'ca']);
 const MAX_ELIDED_PREFIX = 5;
 // English clitics written onto a word, split off as wink-tokenizer does ("it's" → "it" + "'s").
+const NEGATED_STEMS: Readonly<Record<string, string>> = { ca: 'can', wo: 'will', sha: 'shall' };
 const ENGLISH_CLITIC = /^(.*[\p{L}\p{M}])(n't|'s|'re|'ll|'ve|'d|'m)$/iu;
 
 const wink = new Tokenizer();
@@ -124,6 +125,11 @@ function complexChunk(chunk: string, language: string, sink: TokenSink): void {
   };
   for (const t of tokens) {
     const tag = t.tag as string;
+    // wink-tokenizer cuts "can't" into "ca" + "n't" (and "won't" into "wo" + "n't").
+    if (language === 'en' && tag === 'word' && t.value.toLowerCase() === "n't" && pending !== '') {
+      const fixed = NEGATED_STEMS[pending.toLowerCase()];
+      if (fixed !== undefined) pending = pending[0] === pending[0].toUpperCase() ? fixed[0].toUpperCase() + fixed.slice(1) : fixed;
+    }
     if ((tag === 'word' || tag === 'alien') && PLAIN_WORD.test(t.value) && !(tag === 'word' && t.value.toLowerCase() === "n't")) {
       pending += t.value;
       continue;

@@ -60,6 +60,18 @@ describe('stop words', () => {
     expect(stopWordSet('fr').has('clinic')).toBe(false);
   });
 
+  it('can take survey theme words off the open list (lexicon "keep")', () => {
+    expect(openStopWords('en')).toContain('opening');
+    expect(openStopWords('en')).toContain('computer');
+    expect(stopWordSet('en').has('opening')).toBe(true);
+    const set = stopWordSet('en', {}, { keepThemeWords: true });
+    expect(set.has('opening')).toBe(false);
+    expect(set.has('computer')).toBe(false);
+    expect(set.has('rooms')).toBe(false);
+    expect(set.has('the')).toBe(true);
+    expect(stopWordSet('fr', {}, { keepThemeWords: true }).has('ouvert')).toBe(false);
+  });
+
   it('compare in normal form (Turkish lower case)', () => {
     expect(stopWordSet('tr', { tr: ['IŞIK'] }).has('ışık')).toBe(true);
   });

@@ -114,7 +114,7 @@ describe('prepareText', () => {
   it('never crashes and returns one document per input (property)', () => {
     fc.assert(
       fc.property(
-        fc.array(fc.record({ language: fc.constantFrom('en', 'fr', 'tr', 'zh', 'ja', null), text: fc.string({ unit: 'grapheme', maxLength: 40 }) }), { maxLength: 10 }),
+        fc.array(fc.record({ language: fc.constantFrom('en', 'fr', 'tr', 'zh', 'ja', null), text: fc.oneof(fc.string({ unit: 'grapheme', maxLength: 40 }), fc.string({ unit: 'binary', maxLength: 40 })) }), { maxLength: 10 }),
         fc.boolean(),
         (docs, collocations) => {
           const prepared = prepareText(docs, settings({ collocationNpmi: collocations ? 0.1 : null, collocationMinCount: 1 }));
