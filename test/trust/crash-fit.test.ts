@@ -107,7 +107,7 @@ describe('killing the server during a fit', () => {
       const before = runState(folder.dir, crashedId);
       // A run left 'running' by the dead process shows as interrupted (never failed, never still
       // running without a worker); a run left queued is simply started.
-      expect(before.status, `status after restart ${i}`).toBe(left === 'running' ? 'interrupted' : 'running');
+      expect(before.status, `status after restart ${i} (kills so far: ${killedAt.join(' ')})`).toBe(left === 'running' ? 'interrupted' : 'running');
       if (before.status === 'interrupted') {
         const client = new LocalClient(server.url);
         const res = await client.postForm(`/studies/${studyId}/runs/${crashedId}/resume`, {});
@@ -131,7 +131,7 @@ describe('killing the server during a fit', () => {
       inspect(folder.dir, (db) => expect(databaseProblems(db), `after kill ${i}`).toEqual([]));
       const after = runState(folder.dir, crashedId);
       killedAt.push(`${after.status}@${after.checkpoint ?? '-'}`);
-      expect(after.status, `kill ${i} came too late to interrupt the fit`).not.toBe('finished');
+      expect(after.status, `kill ${i} came too late to interrupt the fit (${killedAt.join(' ')})`).not.toBe('finished');
       expect(after.checkpoint ?? 0, `a checkpoint was lost at kill ${i}`).toBeGreaterThanOrEqual(saved);
       saved = after.checkpoint ?? saved;
       left = after.status;
