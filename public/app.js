@@ -12,4 +12,14 @@ document.addEventListener('DOMContentLoaded', () => {
     head.textContent = '';
     head.appendChild(all);
   }
+  // "Show password" on the sign-in form: lets people check what they typed (OWASP ASVS 4.0.3 V2.1.12).
+  for (const toggle of document.querySelectorAll('[data-show-password]')) {
+    const box = toggle.querySelector('input[type="checkbox"]');
+    const field = box && document.getElementById(box.getAttribute('aria-controls') ?? '');
+    if (!field) continue;
+    toggle.hidden = false;
+    box.addEventListener('change', () => {
+      field.type = box.checked ? 'text' : 'password';
+    });
+  }
 });

@@ -1,7 +1,7 @@
 // users and serve.
 import type { Command } from 'commander';
 import { ensureDemoStudy } from '../services/index.js';
-import { createAccount } from '../store/index.js';
+import { createAccount, giveOwnerlessStudiesToFirstAccount, MIN_PASSWORD_LENGTH } from '../store/index.js';
 import { InputError } from '../text/types.js';
 import { describeImport } from './study-commands.js';
 import type { CliContext } from './context.js';
@@ -20,12 +20,22 @@ export function registerAdminCommands(program: Command, ctx: CliContext): void {
     .action(async (name: string) => {
       const text = await ctx.io.readStdin();
       const password = text.split(/\r?\n/)[0] ?? '';
-      if (password.length < 8) throw new InputError('Give a password of at least 8 characters on standard input, e.g. printf "%s\\n" "$PASSWORD" | themata users add NAME.');
+      // OWASP ASVS 4.0.3, requirement 2.1.1: at least 12 characters.
+      if ([...password].length < MIN_PASSWORD_LENGTH) {
+        throw new InputError(`Give a password of at least ${MIN_PASSWORD_LENGTH} characters on standard input, e.g. printf "%s\\n" "$PASSWORD" | themata users add NAME.`);
+      }
+      const store = ctx.openStore();
       try {
-        const account = createAccount(ctx.openStore(), name, password);
+        const account = createAccount(store, name, password);
         ctx.out(`Added account "${account.name}".`);
       } catch (e) {
         throw new InputError((e as Error).message);
+      }
+      // Studies made before any account existed (command line, demo) belong to no one; without an
+      // owner the workbench would show them to nobody.
+      const given = giveOwnerlessStudiesToFirstAccount(store);
+      if (given && given.studies.length) {
+        ctx.out(`Gave ${given.studies.length} ${given.studies.length === 1 ? 'study' : 'studies'} without an owner to "${given.account.name}", the first account: ${given.studies.map((n) => `"${n}"`).join(', ')}.`);
       }
     });
 

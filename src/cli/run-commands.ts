@@ -17,7 +17,7 @@ import {
   type RunModel,
 } from '../services/index.js';
 import { csvBytes, round6, toCsv } from '../services/csv.js';
-import { getRun, getRunByName, getStudy, setRunProgress, setRunStatus, type Run, type Store } from '../store/index.js';
+import { getRun, getRunByName, getStudy, interruptIfAbandoned, setRunProgress, setRunStatus, touchRunHeartbeat, type Run, type Store } from '../store/index.js';
 import { InputError } from '../text/types.js';
 import { collect, mappingFromFlags, mappingOptions, parseNumber, readInputFile, type CliContext, type MappingFlags } from './context.js';
 
@@ -42,6 +42,7 @@ export interface FitFlags {
   covariate: string[];
   holdout?: string;
   name?: string;
+  checkpointEvery?: string;
 }
 
 /** Create and run one fit in this process, with a progress bar; returns its diagnostics. */
@@ -55,6 +56,7 @@ export async function fitInProcess(ctx: CliContext, flags: FitFlags, label = '')
     covariates: flags.covariate,
     holdout: parseNumber('--holdout', flags.holdout, 'float'),
     ...(flags.name ? { name: flags.name } : {}),
+    ...(flags.checkpointEvery !== undefined ? { checkpointEvery: parseNumber('--checkpoint-every', flags.checkpointEvery) } : {}),
   });
   return executeRun(ctx, run, label);
 }
@@ -81,7 +83,11 @@ export async function executeRun(ctx: CliContext, run: Run, label = ''): Promise
         bar.start(run.settings.sweeps, from ?? 0, { speed: '-', ll: '-', left: '-' });
       },
       onProgress: (p) => {
-        if (p.phase !== 'sampling') return;
+        if (p.phase !== 'sampling') {
+          // A sign of life while the corpus is read, so `resume` elsewhere knows the run is alive.
+          touchRunHeartbeat(store, run.id);
+          return;
+        }
         if (typeof p.logLikelihoodPerToken === 'number') trace.push(p.logLikelihoodPerToken);
         bar.update(p.sweep ?? 0, {
           speed: Math.round(Number(p.tokensPerSecond ?? 0)).toLocaleString('en'),
@@ -99,8 +105,7 @@ export async function executeRun(ctx: CliContext, run: Run, label = ''): Promise
       setRunStatus(store, run.id, 'interrupted');
       throw new InputError(`Fit "${run.name}" stopped at your request; continue it with: themata resume --study "${getStudy(store, run.studyId)?.name}" --run "${run.name}".`);
     }
-    setRunProgress(store, run.id, { phase: 'finished', sweep: run.settings.sweeps, sweeps: run.settings.sweeps, trace });
-    setRunStatus(store, run.id, 'finished');
+    // runFitJob stored the results, the final progress and status 'finished' in one transaction.
     return outcome.diagnostics!;
   } catch (error) {
     bar.stop();
@@ -124,7 +129,8 @@ export function fitOptions(cmd: Command): Command {
     .option('--burn-in <n>', 'sweeps before samples are kept (default a fifth, at most 200)')
     .option('--threads <t>', 'threads for parallel sweeps (default 1)')
     .option('--covariate <col>', 'metadata column the theme prior depends on (repeat)', collect, [])
-    .option('--holdout <share>', 'share of answers held out for the checks (e.g. 0.1)');
+    .option('--holdout <share>', 'share of answers held out for the checks (e.g. 0.1)')
+    .option('--checkpoint-every <n>', 'save a checkpoint every n sweeps, to resume from after a crash (default 50; 0 = never)');
 }
 
 export function registerRunCommands(program: Command, ctx: CliContext): void {
@@ -148,8 +154,19 @@ export function registerRunCommands(program: Command, ctx: CliContext): void {
       const s = requireStudy(store, flags.study);
       const run = getRunByName(store, s.id, flags.run);
       if (!run) throw new InputError(`Study "${s.name}" has no run called "${flags.run}".`);
-      if (run.status === 'finished' || run.status === 'running' || run.status === 'queued') throw new InputError(`Run "${run.name}" is ${run.status}; only interrupted, cancelled or failed runs can be resumed.`);
-      const d = await executeRun(ctx, run);
+      let current = run;
+      if (run.status === 'running') {
+        // A run left 'running' by a killed `themata fit` (or workbench) is interrupted, not busy.
+        const reason = interruptIfAbandoned(store, run.id);
+        if (!reason) {
+          const owner = run.ownerPid !== null ? ` by process ${run.ownerPid} on ${run.ownerHost}` : '';
+          throw new InputError(`Run "${run.name}" is still being fitted${owner} (last sign of life ${run.heartbeatAt ?? run.startedAt ?? 'unknown'}). Wait for it, or stop that process first.`);
+        }
+        ctx.err(`Run "${run.name}" was left running: ${reason}. Continuing it from its last checkpoint.`);
+        current = getRun(store, run.id)!;
+      }
+      if (current.status === 'finished' || current.status === 'running' || current.status === 'queued') throw new InputError(`Run "${current.name}" is ${current.status}; only interrupted, cancelled or failed runs can be resumed.`);
+      const d = await executeRun(ctx, current);
       const { trace, ...rest } = d;
       ctx.out(JSON.stringify({ ...rest, logLikelihoodTrace: { first: trace[0], last: trace[trace.length - 1], sweeps: trace.length } }));
     });

@@ -1,5 +1,5 @@
-// The composition root of the workbench: security headers, static assets, sign-in, session and
-// CSRF checks, then the pages. Routes are thin: parse → call store/services → render a view.
+// The composition root of the workbench: security and no-store headers, the Host check, static
+// assets, sign-in, session and CSRF checks, then the pages. Routes are thin: parse → call store/services → render a view.
 import { Hono } from 'hono';
 import { bodyLimit } from 'hono/body-limit';
 import { HTTPException } from 'hono/http-exception';
@@ -17,19 +17,24 @@ import { studyRoutes } from './routes/studies.js';
 import { vocabularyRoutes } from './routes/vocabulary.js';
 import { exportRoutes } from './routes/export.js';
 import { RunDataCache } from './results/run-data.js';
-import { securityHeaders } from './security.js';
+import { hostGuard } from './hosts.js';
+import { noStore, securityHeaders } from './security.js';
+import { SignInThrottle } from './throttle.js';
 import type { AppDeps, AppEnv } from './types.js';
 
 export const DEFAULT_UPLOAD_LIMIT = 100 * 1024 * 1024;
 
-export function createApp(deps: AppDeps): Hono<AppEnv> {
+export function createApp(given: AppDeps): Hono<AppEnv> {
   const app = new Hono<AppEnv>();
+  const deps: AppDeps = { ...given, signInThrottle: given.signInThrottle ?? new SignInThrottle() };
   const limit = deps.uploadLimitBytes ?? DEFAULT_UPLOAD_LIMIT;
   app.use('*', securityHeaders());
+  app.use('*', noStore());
   app.use('*', async (c, next) => {
     c.set('deps', deps);
     await next();
   });
+  app.use('*', hostGuard());
   app.use(
     '*',
     bodyLimit({

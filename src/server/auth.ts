@@ -8,9 +8,18 @@ import { timingSafeEqual } from 'node:crypto';
 import type { Context, MiddlewareHandler } from 'hono';
 import { deleteCookie, getCookie } from 'hono/cookie';
 import { countAccounts, getSession } from '../store/index.js';
-import type { AppEnv } from './types.js';
+import type { AppDeps, AppEnv } from './types.js';
 
 export const SESSION_COOKIE = 'themata_session';
+/** Behind HTTPS the cookie carries the `__Host-` prefix: browsers then accept it only with
+ * `Secure`, `Path=/` and no `Domain`, so a sibling host cannot plant or shadow it
+ * (RFC 6265bis "Cookie Name Prefixes"; OWASP ASVS 4.0.3 V3.4.4). */
+export const SECURE_SESSION_COOKIE = `__Host-${SESSION_COOKIE}`;
+
+/** The session cookie's name for this server. */
+export function sessionCookieName(deps: Pick<AppDeps, 'secureCookies'>): string {
+  return deps.secureCookies ? SECURE_SESSION_COOKIE : SESSION_COOKIE;
+}
 
 const SAFE = new Set(['GET', 'HEAD', 'OPTIONS']);
 
@@ -35,10 +44,11 @@ export function sessionMiddleware(): MiddlewareHandler<AppEnv> {
       c.set('csrf', deps.localCsrf ?? '');
       return next();
     }
-    const token = getCookie(c, SESSION_COOKIE);
+    const cookie = sessionCookieName(deps);
+    const token = getCookie(c, cookie);
     const session = token ? getSession(deps.store, token) : undefined;
     if (!session) {
-      if (token) deleteCookie(c, SESSION_COOKIE, { path: '/' });
+      if (token) deleteCookie(c, cookie, { path: '/', secure: deps.secureCookies ?? false });
       return refuse(c);
     }
     c.set('user', { id: session.accountId, name: session.accountName, local: false });

@@ -7,6 +7,7 @@ import { JobQueue } from '../jobs/index.js';
 import { ensureDemoStudy } from '../services/index.js';
 import { countAccounts, openStore } from '../store/index.js';
 import { createApp } from './app.js';
+import { normaliseAllowedHost } from './hosts.js';
 
 export interface StartServerOptions {
   host?: string;
@@ -17,7 +18,19 @@ export interface StartServerOptions {
   /** Fits at once (default 1). */
   concurrency?: number;
   uploadLimitBytes?: number;
+  /**
+   * Served over HTTPS (a TLS proxy in front): the session cookie gets `Secure` and the `__Host-`
+   * prefix. Without the option, `THEMATA_SECURE_COOKIES=1` in the environment turns it on, so
+   * `themata serve` can use it.
+   */
   secureCookies?: boolean;
+  /**
+   * Host names the server also answers to, e.g. the public name a TLS proxy passes on in its Host
+   * header. On loopback only loopback names are accepted otherwise; on other addresses any name is
+   * accepted unless this list is given. Without the option, `THEMATA_ALLOWED_HOSTS` (names
+   * separated by commas) is read from the environment.
+   */
+  allowedHosts?: readonly string[];
 }
 
 export interface RunningServer {
@@ -34,6 +47,15 @@ export function isLoopback(host: string): boolean {
   return false;
 }
 
+/** `THEMATA_SECURE_COOKIES` / `THEMATA_ALLOWED_HOSTS` as options (for `themata serve`). */
+export function settingsFromEnvironment(env: Record<string, string | undefined>): { secureCookies: boolean; allowedHosts: string[] } {
+  const secure = (env.THEMATA_SECURE_COOKIES ?? '').trim().toLowerCase();
+  return {
+    secureCookies: secure === '1' || secure === 'true' || secure === 'yes',
+    allowedHosts: (env.THEMATA_ALLOWED_HOSTS ?? '').split(',').map((x) => x.trim()).filter(Boolean),
+  };
+}
+
 export class ServerStartError extends Error {
   override readonly name = 'ServerStartError';
 }
@@ -41,6 +63,12 @@ export class ServerStartError extends Error {
 export async function startServer(options: StartServerOptions): Promise<RunningServer> {
   const host = options.host ?? '127.0.0.1';
   const loopbackOnly = isLoopback(host);
+  const fromEnv = settingsFromEnvironment(process.env);
+  const allowedHosts = options.allowedHosts ?? fromEnv.allowedHosts;
+  const badHost = allowedHosts.find((h) => !normaliseAllowedHost(h));
+  if (badHost !== undefined) {
+    throw new ServerStartError(`"${badHost}" is not a host name. List allowed hosts as names such as lab.example.org, separated by commas.`);
+  }
   const store = openStore(options.dataDir);
   if (!loopbackOnly && countAccounts(store) === 0) {
     store.close();
@@ -58,7 +86,8 @@ export async function startServer(options: StartServerOptions): Promise<RunningS
     store,
     queue,
     loopbackOnly,
-    secureCookies: options.secureCookies,
+    secureCookies: options.secureCookies ?? fromEnv.secureCookies,
+    allowedHosts,
     uploadLimitBytes: options.uploadLimitBytes,
     localCsrf: randomBytes(24).toString('base64url'),
   });

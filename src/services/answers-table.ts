@@ -1,6 +1,7 @@
 // The answers-by-theme table (DESIGN §8), shared by Export and Apply so both files have the same
-// columns: id, question, the covariate columns, language, link key, weight, one share column per
-// theme named from its label, dominant theme.
+// columns: the original id column (under its name in the imported file), question, the metadata
+// columns (under their original names), language, link key, weight, one share column per theme
+// named from its label, dominant theme.
 import type { CsvCell } from './csv.js';
 import { round6 } from './csv.js';
 import { dominantTheme } from './run-model.js';
@@ -27,8 +28,12 @@ export function shareColumns(labels: readonly string[], taken: readonly string[]
   });
 }
 
-export function answersTable(rows: Iterable<AnswerRow>, covariateNames: readonly string[], labels: readonly string[]): { header: string[]; rows: CsvCell[][] } {
-  const fixed = ['id', 'question', ...covariateNames, 'language', 'link key', 'weight'];
+/**
+ * The table's header and rows. `idColumn` is the name of the id column in the imported file
+ * ('id' when no id column was mapped: the ids are then row numbers).
+ */
+export function answersTable(rows: Iterable<AnswerRow>, covariateNames: readonly string[], labels: readonly string[], idColumn = 'id'): { header: string[]; rows: CsvCell[][] } {
+  const fixed = [idColumn.trim() || 'id', 'question', ...covariateNames, 'language', 'link key', 'weight'];
   const header = [...fixed, ...shareColumns(labels, [...fixed, 'dominant theme']), 'dominant theme'];
   const out: CsvCell[][] = [];
   for (const r of rows) {

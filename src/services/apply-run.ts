@@ -91,7 +91,7 @@ export async function applyRun(bundle: RunBundle, options: ApplyOptions): Promis
     weight: d.weight,
     mixture: mixtures[i],
   }));
-  const table2 = answersTable(rows, mapping.covariates.map((c) => c.column), bundle.labels);
+  const table2 = answersTable(rows, mapping.covariates.map((c) => c.column), bundle.labels, mapping.id);
   return {
     file: { name: 'answers-by-theme.csv', mediaType: 'text/csv; charset=utf-8', bytes: csvBytes(table2.header, table2.rows) },
     summary: {

@@ -39,6 +39,20 @@ export function runContrasts(store: Store, model: RunModel, request: ContrastReq
     weights[d] = doc.weight;
     raw[d] = request.by === 'language' ? doc.language : request.by === 'question' ? doc.question : (doc.covariates[request.by] ?? null);
   }
+  // Linked answers (translations, paired texts) are one respondent with one mixture: count each
+  // link group once per level, by its first answer (and that answer's weight), so a translated
+  // answer does not double its respondent's weight; members in different levels (e.g. by
+  // language) count once in each.
+  const seen = new Set<string>();
+  let merged = 0;
+  for (let d = 0; d < D; d++) {
+    if (raw[d] === null) continue;
+    const key = `${model.docGroup[d]}\u0000${String(raw[d])}`;
+    if (seen.has(key)) {
+      raw[d] = null;
+      merged++;
+    } else seen.add(key);
+  }
   const numeric = raw.every((v) => v === null || typeof v === 'number') && raw.some((v) => v !== null) && request.by !== 'language' && request.by !== 'question';
   const S = Math.max(1, Math.min(model.thetaSamples.length, Math.floor(MAX_THETA_VALUES / Math.max(1, D * K))));
   const sources = model.thetaSamples.length ? model.thetaSamples.slice(-S) : [Float32Array.from(model.thetaGroups)];
@@ -47,15 +61,18 @@ export function runContrasts(store: Store, model: RunModel, request: ContrastReq
     for (let d = 0; d < D; d++) out.set(groups.subarray(model.docGroup[d] * K, model.docGroup[d] * K + K), d * K);
     return out;
   });
-  const options = { weights, draws: request.draws ?? 1000, seed: request.seed ?? 1, themeLabels: model.labels, fdr: request.fdr === undefined ? 0.05 : request.fdr, ...(request.reference ? { reference: request.reference } : {}) };
+  // Resample a link group's answers together (cluster bootstrap, Davison & Hinkley 1997, §3.8).
+  const options = { weights, clusterOfDoc: model.docGroup, draws: request.draws ?? 1000, seed: request.seed ?? 1, themeLabels: model.labels, fdr: request.fdr === undefined ? 0.05 : request.fdr, ...(request.reference ? { reference: request.reference } : {}) };
+  const withNote = (res: ContrastResult): ContrastResult =>
+    merged ? { ...res, excludedDocuments: res.excludedDocuments - merged, notes: [...res.notes, `Linked answers are one respondent: each link group counts once per level (its first answer and weight); ${merged} linked ${merged === 1 ? 'answer was' : 'answers were'} not counted again.`] } : res;
   if (numeric) {
     const values = Float64Array.from(raw, (v) => (typeof v === 'number' ? v : NaN));
-    return groupContrasts({ K, D, samples }, { name: request.by, kind: 'numeric', values, bins: request.bins }, options);
+    return withNote(groupContrasts({ K, D, samples }, { name: request.by, kind: 'numeric', values, bins: request.bins }, options));
   }
   const levels = [...new Set(raw.filter((v): v is string | number => v !== null).map(String))].sort((a, b) => a.localeCompare(b, undefined, { numeric: true }));
   const levelIndex = new Map(levels.map((l, i) => [l, i]));
   const levelOfDoc = Int32Array.from(raw, (v) => (v === null ? -1 : levelIndex.get(String(v))!));
-  return groupContrasts({ K, D, samples }, { name: request.by, kind: 'categorical', levels, levelOfDoc }, options);
+  return withNote(groupContrasts({ K, D, samples }, { name: request.by, kind: 'categorical', levels, levelOfDoc }, options));
 }
 
 export const SHARES_HEADER = ['covariate', 'level', 'theme', 'share', 'low', 'high', 'n', 'effective n'];

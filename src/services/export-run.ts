@@ -29,6 +29,16 @@ export function studyCovariates(store: Store, studyId: number): string[] {
 }
 
 /**
+ * Name of the id column in the study's imported files ('id' when none was mapped); the names of
+ * several imports that differ are joined with " / ".
+ */
+export function studyIdColumn(store: Store, studyId: number): string {
+  const names: string[] = [];
+  for (const imp of listImports(store, studyId)) if (imp.mapping.id && !names.includes(imp.mapping.id)) names.push(imp.mapping.id);
+  return names.length ? names.join(' / ') : 'id';
+}
+
+/**
  * Mixture of every study answer under this run: the fitted mixture where the answer was fitted,
  * otherwise fold-in on its words (held-out answers, answers imported after the fit), matched to
  * the run's vocabulary by stem.
@@ -107,7 +117,7 @@ function safeFileStem(name: string): string {
 export function exportRun(store: Store, model: RunModel, options: ExportOptions = {}): ExportedFile[] {
   const n = options.topWords ?? 20;
   const covariates = studyCovariates(store, model.run.studyId);
-  const answers = answersTable(studyAnswerRows(store, model), covariates, model.labels);
+  const answers = answersTable(studyAnswerRows(store, model), covariates, model.labels, studyIdColumn(store, model.run.studyId));
   const shareRows: CsvCell[][] = [];
   for (const by of contrastCovariates(store, model.run.studyId)) {
     const res = runContrasts(store, model, { by, draws: options.draws ?? 1000, fdr: null });

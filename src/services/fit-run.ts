@@ -17,6 +17,7 @@ import {
   latestCheckpoint,
   listDocumentTokens,
   loadVocabulary,
+  markRunFinished,
   openStore,
   saveCheckpoint,
   saveResults,
@@ -130,7 +131,10 @@ export interface FitDiagnostics {
   trace: number[];
 }
 
-/** Run the fit of a stored run to the end (or until shouldStop) and store its results. */
+/**
+ * Run the fit of a stored run to the end (or until shouldStop) and store its results; the run
+ * becomes 'finished' in the same transaction as its results.
+ */
 export async function runFitJob(options: FitJobOptions): Promise<FitJobOutcome> {
   const store = options.store ?? openStore(options.dataDir ?? './data');
   try {
@@ -263,10 +267,13 @@ function storeFit(store: Store, run: Run, p: PreparedCorpus, out: FitOutput): Fi
     entries[`phi:${lang}`] = { value: out.phi[l], shape: [K, p.vocabularies[l].stems.length] };
     entries[`vocabulary:${lang}`] = { json: p.vocabularies[l] };
   });
+  // Results, status and final progress in one transaction: a kill between them would leave a run
+  // that is not finished but has no checkpoint left to resume from.
   withBusyRetry(() =>
     inTransaction(store, () => {
       saveResults(store, run.id, entries);
       clearCheckpoints(store, run.id);
+      markRunFinished(store, run.id, { phase: 'finished', sweep: out.sweepsDone, sweeps: run.settings.sweeps, logLikelihoodPerToken: last, secondsLeft: 0, trace: out.trace });
     }),
   );
   return diagnostics;

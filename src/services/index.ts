@@ -16,7 +16,7 @@ export {
 } from './fit-run.js';
 export { loadRunModel, themeWords, documentMixtures, overallShares, dominantTheme, themeLabel, type RunModel, type ThemeWord } from './run-model.js';
 export { runContrasts, contrastCovariates, SHARES_HEADER, type ContrastRequest } from './contrasts.js';
-export { exportRun, buildBundle, studyAnswerRows, studyCovariates, type ExportedFile, type ExportOptions } from './export-run.js';
+export { exportRun, buildBundle, studyAnswerRows, studyCovariates, studyIdColumn, type ExportedFile, type ExportOptions } from './export-run.js';
 export { applyRun, type ApplyOptions, type ApplySummary } from './apply-run.js';
 export { encodeBundle, decodeBundle, BUNDLE_EXTENSION, type RunBundle } from './bundle.js';
 export { answersTable, shareColumns, type AnswerRow } from './answers-table.js';

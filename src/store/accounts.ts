@@ -12,10 +12,14 @@ export interface Account {
 
 export type StudyRole = 'owner' | 'editor' | 'viewer';
 
+/** Shortest password accepted: 12 characters (OWASP ASVS 4.0.3, requirement 2.1.1). */
+export const MIN_PASSWORD_LENGTH = 12;
+
 export function createAccount(store: Store, name: string, password: string): Account {
   const clean = name.trim();
   if (!clean) throw new Error('An account needs a name.');
-  if (password.length < 8) throw new Error('Choose a password of at least 8 characters.');
+  // Characters, not UTF-16 units: an emoji counts once (ASVS 2.1.1 counts characters).
+  if ([...password].length < MIN_PASSWORD_LENGTH) throw new Error(`Choose a password of at least ${MIN_PASSWORD_LENGTH} characters.`);
   if (getAccountByName(store, clean)) throw new Error(`An account named "${clean}" already exists.`);
   const info = store.db.prepare('INSERT INTO accounts (name, password_hash, created_at) VALUES (?, ?, ?)').run(clean, hashPassword(password), now());
   return getAccount(store, Number(info.lastInsertRowid))!;
@@ -114,4 +118,22 @@ export function listStudyMembers(store: Store, studyId: number): { accountId: nu
   return store.db
     .prepare('SELECT m.account_id AS accountId, a.name, m.role FROM study_members m JOIN accounts a ON a.id = m.account_id WHERE m.study_id = ? ORDER BY a.name')
     .all(studyId) as { accountId: number; name: string; role: StudyRole }[];
+}
+
+/**
+ * Give every study without any member (made by the command line or the demo import before any
+ * account existed) to the first account created, as owner; returns the studies given, by name.
+ * One transaction.
+ */
+export function giveOwnerlessStudiesToFirstAccount(store: Store): { account: Account; studies: string[] } | undefined {
+  return inTransaction(store, () => {
+    const first = store.db.prepare('SELECT id, name, created_at AS createdAt FROM accounts ORDER BY id LIMIT 1').get() as Account | undefined;
+    if (!first) return undefined;
+    const rows = store.db
+      .prepare('SELECT id, name FROM studies s WHERE NOT EXISTS (SELECT 1 FROM study_members m WHERE m.study_id = s.id) ORDER BY id')
+      .all() as { id: number; name: string }[];
+    const add = store.db.prepare("INSERT INTO study_members (study_id, account_id, role) VALUES (?, ?, 'owner')");
+    for (const r of rows) add.run(r.id, first.id);
+    return { account: first, studies: rows.map((r) => r.name) };
+  });
 }

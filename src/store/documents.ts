@@ -144,7 +144,13 @@ function whereClause(studyId: number, f: DocumentFilter): { sql: string; params:
     params.push(f.search, f.search);
   }
   if (f.ids) parts.push(`id IN (SELECT value FROM json_each(?))`), params.push(JSON.stringify(f.ids));
-  if (f.covariate) (parts.push('CAST(json_extract(covariates, ?) AS TEXT) = ?'), params.push(`$."${f.covariate.name.replace(/"/g, '""')}"`, f.covariate.value));
+  // Match the key with json_each and a bound parameter instead of building a JSON path: a
+  // covariate name may hold any character (`"`, `.`, `$`, quotes, spaces), and SQLite's JSON
+  // path syntax has no escape that covers them all.
+  if (f.covariate) {
+    parts.push('EXISTS (SELECT 1 FROM json_each(covariates) c WHERE c.key = ? AND CAST(c.value AS TEXT) = ?)');
+    params.push(f.covariate.name, f.covariate.value);
+  }
   return { sql: parts.join(' AND '), params };
 }
 

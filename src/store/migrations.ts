@@ -143,6 +143,15 @@ CREATE INDEX run_exports_run ON run_exports(run_id);
 ALTER TABLE documents ADD COLUMN written_language TEXT;
 `,
   },
+  {
+    version: 3,
+    description: 'which process runs a fit (process id, host name) and when it last gave a sign of life',
+    sql: `
+ALTER TABLE runs ADD COLUMN owner_pid INTEGER;
+ALTER TABLE runs ADD COLUMN owner_host TEXT;
+ALTER TABLE runs ADD COLUMN heartbeat_at TEXT;
+`,
+  },
 ];
 
 /** Highest migration number this program knows. */

@@ -1,4 +1,7 @@
 // Runs: one fit each, with settings, status, live progress and error; plus checkpoints.
+// A running run records which process runs it (process id and host name) and a heartbeat, so a
+// run left 'running' by a process that was killed can be told from one still being fitted.
+import { hostname } from 'node:os';
 import { inTransaction, now, type Store } from './database.js';
 
 export type RunStatus = 'queued' | 'running' | 'interrupted' | 'cancelled' | 'failed' | 'finished';
@@ -40,6 +43,11 @@ export interface Run {
   readonly createdAt: string;
   readonly startedAt: string | null;
   readonly finishedAt: string | null;
+  /** Process running the fit (set when it turned 'running'); null for runs never started. */
+  readonly ownerPid: number | null;
+  readonly ownerHost: string | null;
+  /** Last sign of life of the fitting process (status change or progress write). */
+  readonly heartbeatAt: string | null;
 }
 
 interface RunRow {
@@ -53,6 +61,9 @@ interface RunRow {
   created_at: string;
   started_at: string | null;
   finished_at: string | null;
+  owner_pid: number | null;
+  owner_host: string | null;
+  heartbeat_at: string | null;
 }
 
 function toRun(r: RunRow): Run {
@@ -67,6 +78,9 @@ function toRun(r: RunRow): Run {
     createdAt: r.created_at,
     startedAt: r.started_at,
     finishedAt: r.finished_at,
+    ownerPid: r.owner_pid,
+    ownerHost: r.owner_host,
+    heartbeatAt: r.heartbeat_at,
   };
 }
 
@@ -103,20 +117,84 @@ export function uniqueRunName(store: Store, studyId: number, base: string): stri
   return name;
 }
 
-/** Change status; sets started_at on 'running' (first time) and finished_at on terminal states. */
+/**
+ * Change status; sets started_at on 'running' (first time) and finished_at on terminal states.
+ * Turning 'running' records this process (id and host name) as the run's owner and beats its heart.
+ */
 export function setRunStatus(store: Store, id: number, status: RunStatus, error: string | null = null): void {
   const t = now();
   const terminal = status === 'finished' || status === 'failed' || status === 'cancelled';
+  const running = status === 'running' ? 1 : 0;
   store.db
     .prepare(
       `UPDATE runs SET status = ?, error = ?, started_at = CASE WHEN ? AND started_at IS NULL THEN ? ELSE started_at END,
-       finished_at = CASE WHEN ? THEN ? ELSE NULL END WHERE id = ?`,
+       finished_at = CASE WHEN ? THEN ? ELSE NULL END,
+       owner_pid = CASE WHEN ? THEN ? ELSE owner_pid END, owner_host = CASE WHEN ? THEN ? ELSE owner_host END,
+       heartbeat_at = ? WHERE id = ?`,
     )
-    .run(status, error, status === 'running' ? 1 : 0, t, terminal ? 1 : 0, t, id);
+    .run(status, error, running, t, terminal ? 1 : 0, t, running, process.pid, running, hostname(), t, id);
 }
 
+/** Store progress; also the run's heartbeat. */
 export function setRunProgress(store: Store, id: number, progress: RunProgress): void {
-  store.db.prepare('UPDATE runs SET progress = ? WHERE id = ?').run(JSON.stringify(progress), id);
+  store.db.prepare('UPDATE runs SET progress = ?, heartbeat_at = ? WHERE id = ?').run(JSON.stringify(progress), now(), id);
+}
+
+/** A sign of life from the process fitting the run, without new progress. */
+export function touchRunHeartbeat(store: Store, id: number): void {
+  store.db.prepare('UPDATE runs SET heartbeat_at = ? WHERE id = ?').run(now(), id);
+}
+
+/** A heartbeat older than this means the fitting process is gone (two minutes; common practice). */
+export const RUN_HEARTBEAT_STALE_MS = 2 * 60_000;
+
+/** Why a 'running' run is taken as abandoned, or null while its process looks alive. */
+export function abandonedReason(run: Run, options: { nowMs?: number; staleMs?: number; host?: string; isAlive?: (pid: number) => boolean } = {}): string | null {
+  if (run.status !== 'running') return null;
+  const host = options.host ?? hostname();
+  const alive = options.isAlive ?? processIsAlive;
+  if (run.ownerPid !== null && run.ownerHost === host && !alive(run.ownerPid)) return `its process (${run.ownerPid} on ${host}) has ended`;
+  const beat = Date.parse(run.heartbeatAt ?? run.startedAt ?? run.createdAt);
+  const staleMs = options.staleMs ?? RUN_HEARTBEAT_STALE_MS;
+  const ageMs = (options.nowMs ?? Date.now()) - beat;
+  if (!Number.isFinite(beat) || ageMs > staleMs) return `it has given no sign of life for ${Number.isFinite(ageMs) ? Math.round(ageMs / 1000) : '?'} s`;
+  return null;
+}
+
+/** Whether process `pid` exists on this host (signal 0 tests without sending anything). */
+export function processIsAlive(pid: number): boolean {
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch (error) {
+    // EPERM: the process exists but belongs to another user.
+    return (error as NodeJS.ErrnoException).code === 'EPERM';
+  }
+}
+
+/**
+ * Mark a 'running' run 'interrupted' when abandonedReason() says its process is gone; returns the
+ * reason, or null (and changes nothing) when the run is not running or still looks alive.
+ */
+export function interruptIfAbandoned(store: Store, id: number, options: Parameters<typeof abandonedReason>[1] = {}): string | null {
+  return inTransaction(store, () => {
+    const run = getRun(store, id);
+    const reason = run ? abandonedReason(run, options) : null;
+    if (reason) store.db.prepare("UPDATE runs SET status = 'interrupted' WHERE id = ? AND status = 'running'").run(id);
+    return reason;
+  });
+}
+
+/**
+ * Store a finished fit's final progress and status 'finished' (call inside the transaction that
+ * stores its results, so a kill never leaves results without the status or the status without
+ * results).
+ */
+export function markRunFinished(store: Store, id: number, progress: RunProgress): void {
+  const t = now();
+  store.db
+    .prepare("UPDATE runs SET status = 'finished', error = NULL, progress = ?, finished_at = ?, heartbeat_at = ? WHERE id = ?")
+    .run(JSON.stringify(progress), t, t, id);
 }
 
 /** On start-up: every run left 'running' by a stopped process becomes 'interrupted'. */

@@ -91,4 +91,21 @@ describe.skipIf(!haveBrowser && process.env.CI !== 'true')('hostile content in c
     await page.goto(`${base}/runs/${runId}/answers`);
     expect(await page.textContent('.answer-list')).toContain(SCRIPT);
   });
+
+  // Not hostile content, but it needs the same browser: the sign-in page's own script works
+  // under the content security policy.
+  it('V2.1.12: the sign-in form can show the password it masks', async () => {
+    const page = context.pages()[0] ?? (await context.newPage());
+    await page.goto(`${server.url}login`);
+    const field = page.locator('#password');
+    await field.fill('correct horse 🐴 battery');
+    expect(await field.getAttribute('type')).toBe('password');
+    const toggle = page.getByLabel('Show password');
+    expect(await toggle.isVisible()).toBe(true);
+    await toggle.check();
+    expect(await field.getAttribute('type')).toBe('text');
+    expect(await field.inputValue()).toBe('correct horse 🐴 battery');
+    await toggle.uncheck();
+    expect(await field.getAttribute('type')).toBe('password');
+  });
 });

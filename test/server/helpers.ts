@@ -4,7 +4,7 @@ import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { JobQueue } from '../../src/jobs/index.js';
-import { createApp } from '../../src/server/index.js';
+import { createApp, type SignInThrottle } from '../../src/server/index.js';
 import { openStore, type Store } from '../../src/store/index.js';
 
 export const LOCAL_CSRF = 'local-token-for-tests-0123456789';
@@ -17,12 +17,30 @@ export interface TestApp {
   close(): Promise<void>;
 }
 
-export function makeApp(options: { loopbackOnly?: boolean; workerUrl?: URL; uploadLimitBytes?: number } = {}): TestApp {
+export interface MakeAppOptions {
+  loopbackOnly?: boolean;
+  workerUrl?: URL;
+  uploadLimitBytes?: number;
+  secureCookies?: boolean;
+  allowedHosts?: string[];
+  signInThrottle?: SignInThrottle;
+}
+
+export function makeApp(options: MakeAppOptions = {}): TestApp {
   const dir = mkdtempSync(join(tmpdir(), 'themata-server-'));
   const store = openStore(dir);
   const queue = new JobQueue({ store, workerUrl: options.workerUrl, progressWriteMs: 0 });
   queue.start();
-  const app = createApp({ store, queue, loopbackOnly: options.loopbackOnly ?? true, localCsrf: LOCAL_CSRF, uploadLimitBytes: options.uploadLimitBytes });
+  const app = createApp({
+    store,
+    queue,
+    loopbackOnly: options.loopbackOnly ?? true,
+    localCsrf: LOCAL_CSRF,
+    uploadLimitBytes: options.uploadLimitBytes,
+    secureCookies: options.secureCookies,
+    allowedHosts: options.allowedHosts,
+    signInThrottle: options.signInThrottle,
+  });
   return {
     app,
     store,

@@ -42,4 +42,9 @@ describe('answers-by-theme table', () => {
     expect(t.rows[0]).toEqual(['7', 'q1', 'North', 'en', '', 2, 0.2, 0.8, 'Wifi']);
     expect(t.rows[1]).toEqual(['8', 'q1', null, '', 'L1', 1, '', '', '']);
   });
+
+  it('heads the id column with the name it has in the imported file', () => {
+    const t = answersTable([], ['Région'], ['id'], 'Respondent no.');
+    expect(t.header).toEqual(['Respondent no.', 'question', 'Région', 'language', 'link key', 'weight', 'id', 'dominant theme']);
+  });
 });

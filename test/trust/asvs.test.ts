@@ -6,6 +6,7 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createFitRun, runFitJob } from '../../src/services/index.js';
 import { addStudyMember, checkPassword, countAccounts, createAccount, insertDocuments, insertImport, listDocuments, setRunStatus, topWords } from '../../src/store/index.js';
+import { SignInThrottle } from '../../src/server/index.js';
 import { syntheticStudy } from '../services/synthetic-study.js';
 import { HTML, inventedSurvey, LOCAL_CSRF, makeApp, postFile, postForm, type TestApp } from '../server/helpers.js';
 
@@ -103,6 +104,53 @@ describe('passwords and accounts (ASVS V2)', () => {
   });
 });
 
+describe('sign-in throttling and secure cookies (ASVS V2.2.1, V3.4.1, V3.4.4)', () => {
+  let minutes = 0;
+  const throttle = new SignInThrottle({ now: () => Date.parse('2026-01-01T00:00:00Z') + minutes * 60_000 });
+  let t: TestApp;
+  beforeAll(() => {
+    t = makeApp({ loopbackOnly: false, signInThrottle: throttle });
+    createAccount(t.store, 'cleo', PASSWORD);
+  });
+  afterAll(() => t.close());
+
+  it('V2.2.1: after five wrong passwords an account is locked for 15 minutes with a clear message, even to the right password', async () => {
+    for (let i = 0; i < 5; i++) expect((await postForm(t, '/login', { name: 'cleo', password: `guess number ${i}` })).status).toBe(401);
+    const locked = await postForm(t, '/login', { name: 'cleo', password: PASSWORD });
+    expect(locked.status).toBe(429);
+    expect(locked.headers.get('Set-Cookie')).toBeNull();
+    expect(locked.headers.get('Retry-After')).toBe('900');
+    expect(await locked.text()).toContain('Too many failed sign-ins for this account or from this computer. Wait 15 minutes');
+    minutes = 15;
+    const later = await postForm(t, '/login', { name: 'cleo', password: PASSWORD });
+    expect(later.status).toBe(303);
+    expect(cookieToken(later)).not.toBe('');
+  });
+
+  it('V3.4.1, V3.4.4: behind HTTPS the session cookie is Secure and named with the __Host- prefix', async () => {
+    const secure = makeApp({ loopbackOnly: false, secureCookies: true });
+    try {
+      createAccount(secure.store, 'dan', PASSWORD);
+      const res = await postForm(secure, '/login', { name: 'dan', password: PASSWORD });
+      const cookie = res.headers.get('Set-Cookie') ?? '';
+      expect(cookie).toMatch(/^__Host-themata_session=[^;]+;/);
+      expect(cookie).toMatch(/; Secure(;|$)/);
+      expect(cookie).toMatch(/; Path=\/(;|$)/);
+      expect(cookie).not.toMatch(/Domain=/i);
+      const token = /__Host-themata_session=([^;]+)/.exec(cookie)![1];
+      expect((await secure.app.request('/', { headers: { ...HTML, Cookie: `__Host-themata_session=${token}` } })).status).toBe(200);
+      // Under the name without the prefix (which a sibling host could set) it is not accepted.
+      expect((await secure.app.request('/', { headers: { ...HTML, Cookie: `themata_session=${token}` } })).status).toBe(303);
+    } finally {
+      await secure.close();
+    }
+  });
+
+  // Blocked on src/store/accounts.ts (createAccount, setPassword) and src/cli/admin-commands.ts,
+  // which still ask for 8 characters; see SECURITY.md, V2.1.1.
+  it.todo('V2.1.1: an account cannot be given a password shorter than 12 characters');
+});
+
 describe('headers, errors and files (ASVS V4.3, V7, V12, V14)', () => {
   let t: TestApp;
   let studyId = 0;
@@ -139,10 +187,35 @@ describe('headers, errors and files (ASVS V4.3, V7, V12, V14)', () => {
     expect(preflight.status).toBe(404);
   });
 
-  // Blocked by a finding in src/server/auth.ts (see the report and SECURITY.md, V4.2.2): in local
-  // mode any Host header is accepted, so a page whose domain is re-pointed to 127.0.0.1 (DNS
-  // rebinding) can read pages, take the CSRF token from a form and post with a matching Origin.
-  it.todo('V4.2.2, V14.5.2: a loopback server without accounts answers only requests addressed to a loopback host name (DNS rebinding)');
+  it('V4.2.2, V14.5.2: a loopback server without accounts answers only requests addressed to a loopback host name (DNS rebinding)', async () => {
+    // A page on a name re-pointed to 127.0.0.1 is same-origin for the browser, so its Origin
+    // matches; only the Host header still names it (Jackson et al., ACM CCS 2007).
+    const rebound = { Host: 'rebound.evil.example:4180', Origin: 'http://rebound.evil.example:4180' };
+    const read = await t.app.request(`/studies/${studyId}/runs/${runId}/answers`, { headers: { ...HTML, ...rebound } });
+    expect(read.status).toBe(421);
+    expect(await read.text()).not.toContain(LOCAL_CSRF);
+    const before = (await (await t.app.request('/', { headers: HTML })).text()).length;
+    expect((await postForm(t, '/studies', { name: 'Rebound', _csrf: LOCAL_CSRF }, rebound)).status).toBe(421);
+    expect((await (await t.app.request('/', { headers: HTML })).text()).length).toBe(before);
+    expect((await t.app.request(`/studies/${studyId}/data`, { headers: { ...HTML, Host: '127.0.0.1:4180' } })).status).toBe(200);
+  });
+
+  it('V8.2.1: every page and download is marked no-store; only static assets may be cached', async () => {
+    expect((await postForm(t, `/studies/${studyId}/runs/${runId}/export`, { _csrf: LOCAL_CSRF })).status).toBe(303);
+    const exportPage = await (await t.app.request(`/studies/${studyId}/runs/${runId}/export`, { headers: HTML })).text();
+    const downloads = [...exportPage.matchAll(/href="([^"]+\/export\/files\/\d+)"/g)].map((m) => m[1]);
+    expect(downloads.length).toBeGreaterThan(0);
+    const run = `/studies/${studyId}/runs/${runId}`;
+    const paths = ['/', '/login', '/nowhere', `/studies/${studyId}/data`, `/studies/${studyId}/languages`, `${run}/answers`, `${run}/answers?q=park`, `${run}/themes`, `${run}/themes/0`, `${run}/contrasts`, ...downloads];
+    for (const path of paths) {
+      const res = await t.app.request(path, { headers: HTML });
+      expect(res.status, path).toBe(path === '/nowhere' ? 404 : 200);
+      expect(res.headers.get('Cache-Control'), path).toMatch(/no-store/);
+      await res.body?.cancel();
+    }
+    const asset = await t.app.request('/assets/app.css');
+    expect(asset.headers.get('Cache-Control')).not.toMatch(/no-store/);
+  });
 
   it('V4.3.2, V12.5.1: no files or folders of the installation are reachable', async () => {
     for (const path of ['/.git/config', '/package.json', '/themata.sqlite', '/assets/../package.json', '/assets/%2e%2e/src/cli.ts', '/public/', '/node_modules/htmx.org/package.json']) {

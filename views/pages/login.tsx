@@ -6,6 +6,7 @@ export function LoginPage(props: { error?: string; next?: string; name?: string 
         <meta name="viewport" content="width=device-width, initial-scale=1" />
         <title>Sign in · Themata</title>
         <link rel="stylesheet" href="/assets/app.css" />
+        <script src="/assets/app.js" defer></script>
       </head>
       <body class="login">
         <main id="main">
@@ -15,7 +16,11 @@ export function LoginPage(props: { error?: string; next?: string; name?: string 
           <form method="post" action="/login" class="stack">
             <input type="hidden" name="next" value={props.next ?? '/'} />
             <label>Account name <input name="name" autocomplete="username" required value={props.name ?? ''} /></label>
-            <label>Password <input name="password" type="password" autocomplete="current-password" required /></label>
+            <label>Password <input id="password" name="password" type="password" autocomplete="current-password" required /></label>
+            {/* Shown by app.js, so it appears only where it works (OWASP ASVS 4.0.3 V2.1.12). */}
+            <label class="show-password" hidden data-show-password>
+              <input type="checkbox" aria-controls="password" /> Show password
+            </label>
             <button type="submit">Sign in</button>
           </form>
           <p class="hint">Accounts are added on the server with <code>themata users add NAME</code>.</p>

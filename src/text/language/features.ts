@@ -1,6 +1,7 @@
 // Features for the study-adaptive language model: lower-cased letter runs ("words") and the
 // character trigrams of each word padded with spaces. Deliberately independent of the tokenizer
 // so that language identification does not depend on the language it is trying to find.
+import { removeInvisibles } from '../tokens/invisible.js';
 
 const WORD = /[\p{L}\p{M}]+/gu;
 // Scripts written without spaces: their "words" are long runs; character bigrams stand in.
@@ -8,7 +9,8 @@ const UNSPACED = /[\p{Script=Han}\p{Script=Hiragana}\p{Script=Katakana}\p{Script
 
 /** Lower-cased words of a text (letter runs; apostrophes and digits separate words). */
 export function languageWords(text: string): string[] {
-  const lower = text.normalize('NFKC').toLowerCase();
+  // Invisible format characters (soft hyphen, U+FEFF, bidi controls) would cut words apart.
+  const lower = removeInvisibles(text.normalize('NFKC')).toLowerCase();
   const runs = lower.match(WORD);
   if (runs === null) return [];
   const out: string[] = [];

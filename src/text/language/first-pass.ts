@@ -1,6 +1,7 @@
 // The first two steps of language identification for one text (DESIGN §5): the script narrows
 // the candidates among the study's languages (often to one), then franc's trigram profile picks
 // among what is left.
+import { removeInvisibles } from '../tokens/invisible.js';
 import { LANGUAGES, type Script } from './languages.js';
 import { countScripts } from './scripts.js';
 import { trigramGuess } from './trigram.js';
@@ -38,7 +39,8 @@ export type TrigramDeferral = 'never' | 'short' | 'always';
 /** Script, then trigrams, for one text; `study` holds table keys (see languageKey). */
 export function firstPass(text: string, study: readonly string[], defer: TrigramDeferral = 'never'): FirstPass {
   if (study.length === 0) return NONE;
-  const normal = text.normalize('NFKC');
+  // Soft hyphens, byte-order marks and bidi controls inside words would break trigrams.
+  const normal = removeInvisibles(text.normalize('NFKC'));
   const { counts, letters } = countScripts(normal);
   if (letters < MIN_LETTERS) return NONE;
   const script = majorityScript(counts);

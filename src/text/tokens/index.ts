@@ -5,7 +5,7 @@ export type { Token, TokenKind, TokenizeOptions } from './token.js';
 export { composeText, lowerCase, normalizeText } from './normalize.js';
 export { stopWordSet } from './stop-words.js';
 export { openStopWords } from './stop-word-lists.js';
-export { isNonAnswer } from './non-answer.js';
+export { isNonAnswer, MAX_SHORT_WORDS } from './non-answer.js';
 export { SURVEY_LEXICONS, surveyLexicon } from './lexicons.js';
 export type { SurveyLexicon } from './lexicons.js';
 export { foldDiacritics, stemmerFor, stemmerName } from './stemmer.js';

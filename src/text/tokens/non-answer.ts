@@ -1,6 +1,9 @@
 // Non-answers: "nothing", "n/a", "no comment", "-", "なし", "无" … A document that is only a
 // non-answer says nothing about any theme; it is excluded with the reason 'non-answer' and never
 // reaches a vocabulary. Phrases come from the shipped survey lexicons (lexicons/survey-fillers).
+// Very short answers are the hardest to put in the right language ("idk" or "tout va bien" can
+// look Spanish to trigrams), so a text of at most MAX_SHORT_WORDS words is also compared with the
+// whole non-answer phrases of every other language of the study.
 import { SURVEY_LEXICONS, surveyLexicon, type SurveyLexicon } from './lexicons.js';
 import { normalizeText } from './normalize.js';
 
@@ -11,9 +14,15 @@ interface Index {
 
 const indexes = new Map<string, Index>();
 
-// Letters, digits and in-word apostrophes make the key; everything else separates words.
+/** "Very short": up to this many words, a non-answer phrase of any study language counts (common practice). */
+export const MAX_SHORT_WORDS = 4;
+
+// Letters, digits, in-word apostrophes and in-word ZWNJ/ZWJ (Persian, Indic) make the key;
+// everything else separates words.
+const NOT_KEY = /[^\p{L}\p{M}\p{N}'\u200C\u200D]+|(?<![\p{L}\p{M}])[\u200C\u200D]+|[\u200C\u200D]+(?![\p{L}\p{M}])/gu;
+
 function key(text: string, language: string): string {
-  return normalizeText(text, language).replace(/[^\p{L}\p{M}\p{N}']+/gu, ' ').replace(/'+(?=\s|$)|(?<=^|\s)'+/g, '').trim();
+  return normalizeText(text, language).replace(NOT_KEY, ' ').replace(/'+(?=\s|$)|(?<=^|\s)'+/g, '').trim();
 }
 
 function build(lexicons: readonly SurveyLexicon[], language: string): Index {
@@ -51,14 +60,36 @@ const SOMETHING = /[\p{L}\p{N}\p{Extended_Pictographic}]/u;
 /**
  * True when a text says nothing: empty or punctuation only, a known non-answer phrase of its
  * language (of any language when `language` is null), or only non-answer and filler words.
+ * With `studyLanguages`, a very short text (at most MAX_SHORT_WORDS words) that is a whole
+ * non-answer phrase of any of them counts too; an undetermined text is then looked up in the
+ * study languages' lexicons (all lexicons when none of them has one).
  */
-export function isNonAnswer(text: string, language: string | null): boolean {
+export function isNonAnswer(text: string, language: string | null, studyLanguages?: readonly string[]): boolean {
   if (!SOMETHING.test(text)) return true;
-  const index = indexFor(language);
+  const study = studyLanguages?.filter((l) => surveyLexicon(l) !== undefined) ?? [];
+  const index = language === null && study.length > 0 ? studyIndex(study) : indexFor(language);
   const k = key(text, language ?? 'und');
   if (k === '') return false;
   if (index.phrases.has(k)) return true;
+  const words = k.split(' ');
   // Unspaced scripts: the whole key is one "word"; checked as a phrase above.
-  for (const word of k.split(' ')) if (!index.words.has(word)) return false;
-  return true;
+  if (words.every((word) => index.words.has(word))) return true;
+  if (language === null || words.length > MAX_SHORT_WORDS) return false;
+  // Other study languages: whole phrases only. Their filler words are not used: a short answer
+  // made of another language's fillers is more likely a real answer than a non-answer.
+  for (const other of study) {
+    if (other === language) continue;
+    if (indexFor(other).phrases.has(key(text, other))) return true;
+  }
+  return false;
+}
+
+function studyIndex(study: readonly string[]): Index {
+  const id = `study:${[...study].sort().join(',')}`;
+  let index = indexes.get(id);
+  if (index === undefined) {
+    index = build(study.map((l) => surveyLexicon(l) as SurveyLexicon), 'und');
+    indexes.set(id, index);
+  }
+  return index;
 }

@@ -12,14 +12,15 @@ import type { Token, TokenKind, TokenizeOptions } from './token.js';
 /** Receives each token: kind, surface (NFKC, original case) and normal (lower-cased). */
 export type TokenSink = (kind: TokenKind, surface: string, normal: string) => void;
 
-const PLAIN_WORD = /^[\p{L}\p{M}]+$/u;
+// ZWNJ/ZWJ survive normalisation only inside words of scripts that need them (invisible.ts).
+const PLAIN_WORD = /^[\p{L}\p{M}][\p{L}\p{M}\u200C\u200D]*$/u;
 const EDGE_PUNCTUATION = /^(\p{P}*)(.*?)(\p{P}*)$/su;
 const LETTER = /\p{L}/u;
 const DIGIT = /\p{N}/u;
 const URL_OR_EMAIL = /(?:https?:\/\/|www\.)[^\s]+|[^\s@]+@[^\s@]+\.[^\s@]+/giu;
 // Last resort when wink-tokenizer cannot reproduce a chunk: letter runs (with inner apostrophes),
 // digit runs, single other characters.
-const FALLBACK = /[\p{L}\p{M}]+(?:'[\p{L}\p{M}]+)*|\p{N}+(?:[.,]\p{N}+)*|\S/gu;
+const FALLBACK = /[\p{L}\p{M}][\p{L}\p{M}\u200C\u200D]*(?:'[\p{L}\p{M}\u200C\u200D]+)*|\p{N}+(?:[.,]\p{N}+)*|\S/gu;
 // Languages whose articles and pronouns elide before a vowel: "l'homme", "dell'uomo", "qu'il".
 const ELIDING = new Set(['fr', 'it', 'ca']);
 const MAX_ELIDED_PREFIX = 5;

@@ -43,18 +43,28 @@ export function prepareText(
   const keys = new Map<string, string>();
   const scratch: number[] = [];
 
+  const keyOf = (raw: string | null): string | null => {
+    if (raw === null || raw.trim() === '') return null;
+    let language = keys.get(raw);
+    if (language === undefined) {
+      language = languageKey(raw);
+      keys.set(raw, language);
+    }
+    return language;
+  };
+  // The study's languages are those its documents were decided to be in: a very short answer
+  // is also checked against their non-answer phrases (it may have been put in the wrong one).
+  const studyLanguages = new Set<string>();
+  for (const doc of docs) {
+    const language = keyOf(doc.language);
+    if (language !== null) studyLanguages.add(language);
+  }
+  const study = [...studyLanguages].sort();
+
   for (let i = 0; i < docs.length; i++) {
     const { text } = docs[i];
-    const raw = docs[i].language;
-    let language: string | null = null;
-    if (raw !== null && raw.trim() !== '') {
-      language = keys.get(raw) ?? null;
-      if (language === null) {
-        language = languageKey(raw);
-        keys.set(raw, language);
-      }
-    }
-    if (isNonAnswer(text, language)) excluded[i] = 'non-answer';
+    const language = keyOf(docs[i].language);
+    if (isNonAnswer(text, language, study)) excluded[i] = 'non-answer';
     else if (language === null) excluded[i] = 'undetermined';
     else {
       const state = stateFor(states, language, settings);
