@@ -38,6 +38,22 @@ export interface FitSettings {
   initialization: 'sequential' | 'random';
   /** Sweeps of the warm start on multilingual link groups (see initialize.ts). */
   warmStartSweeps: number;
+  /**
+   * Start search (start-search.ts): this many independent short chains, each improved by
+   * merge–split perturbations, and the most probable becomes the start. 0 = off: one chain
+   * from the initialization above.
+   */
+  startChains: number;
+  /** Sweeps of each search chain before its perturbations. */
+  startSweeps: number;
+  /** Merge–split perturbations tried per search chain. */
+  startPerturbations: number;
+  /** Gibbs sweeps after each perturbation before it is judged. */
+  startRelaxSweeps: number;
+  /** Restricted Gibbs sweeps of each proposed split. */
+  startRestrictedSweeps: number;
+  /** Sampler for the search (null = samplerFactory); a serial sampler avoids restarting workers. */
+  startSamplerFactory: SamplerFactory | null;
 }
 
 export const DEFAULT_FIT_SETTINGS: Omit<FitSettings, 'K'> = {
@@ -58,6 +74,12 @@ export const DEFAULT_FIT_SETTINGS: Omit<FitSettings, 'K'> = {
   optimizeLambda: true,
   initialization: 'sequential',
   warmStartSweeps: 50,
+  startChains: 0,
+  startSweeps: 100,
+  startPerturbations: 4,
+  startRelaxSweeps: 40,
+  startRestrictedSweeps: 30,
+  startSamplerFactory: null,
 };
 
 export interface SweepProgress {
@@ -111,6 +133,8 @@ export interface FitResult {
     tokensPerSecond: number;
     optimizations: number;
     finalLogLikelihoodPerToken: number;
+    /** Outcome of the start search, null when it was off or the run was resumed. */
+    startSearch: { chainLogLikelihoods: number[]; chainImprovements: number[] } | null;
   };
 }
 
@@ -120,6 +144,7 @@ export function resolveFitSettings(settings: Partial<FitSettings> & { K: number 
   if (!(Number.isInteger(s.K) && s.K >= 1 && s.K <= 65535)) throw new Error(`The number of themes must be a whole number from 1 to 65535 (got ${s.K}).`);
   if (!(s.sweeps >= 1)) throw new Error(`Sweeps must be at least 1 (got ${s.sweeps}).`);
   if (!(s.burnIn >= 0 && s.burnIn < s.sweeps)) throw new Error(`Burn-in (${s.burnIn}) must be below the number of sweeps (${s.sweeps}).`);
+  if (!(Number.isInteger(s.startChains) && s.startChains >= 0)) throw new Error(`startChains must be a whole number ≥ 0 (got ${s.startChains}).`);
   if (!(s.sampleEvery >= 1)) throw new Error('sampleEvery must be at least 1.');
   return s;
 }

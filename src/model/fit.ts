@@ -7,15 +7,15 @@
 // `optimizeFrom` on (default: half the burn-in, so that saved samples come from a chain whose
 // priors have settled); samples are saved every `sampleEvery` sweeps after `burnIn`.
 import { accumulatePhi, groupMixtures, phiByLanguage } from './posterior-samples.js';
-import { betaHistogram, optimizeBeta } from './beta-optimizer.js';
 import { type Checkpoint, CHECKPOINT_VERSION } from './checkpoint.js';
-import { dmrHistograms, optimizeLambda } from './dmr.js';
 import { alphaFromLambda, type GroupFeatures, interceptOnlyFeatures } from './features.js';
 import { type FitHooks, type FitResult, type FitSettings, resolveFitSettings } from './fit-settings.js';
+import { reestimateHyperparameters } from './hyperparameters.js';
 import { initialAssignments } from './initialize.js';
 import { logJointLikelihood } from './log-likelihood.js';
 import { randomAssignments } from './reference-sampler.js';
 import { Xoshiro128 } from './rng.js';
+import { searchStart } from './start-search.js';
 import type { Corpus, Priors } from './types.js';
 
 export { DEFAULT_FIT_SETTINGS } from './fit-settings.js';
@@ -51,6 +51,7 @@ export async function fitModel(
   let thetaSampleSweeps: number[];
   let optimizations: number;
   let start: number;
+  let startSearch: FitResult['diagnostics']['startSearch'] = null;
   const cp = hooks.resumeFrom;
   if (cp) {
     if (cp.version !== CHECKPOINT_VERSION) throw new Error(`Checkpoint version ${cp.version} cannot be resumed by this version.`);
@@ -76,10 +77,38 @@ export async function fitModel(
     for (let k = 0; k < K; k++) lambda[k * F] = Math.log(a0);
     beta = new Float64Array(L).fill(s.initialBeta);
     const initPriors: Priors = { K, groupPattern: feats.groupPattern, alpha: alphaFromLambda(lambda, feats.patterns, K, F), beta };
-    z =
-      s.initialization === 'random'
-        ? randomAssignments(corpus, K, rng)
-        : await initialAssignments(corpus, initPriors, rng, s.samplerFactory, s.warmStartSweeps);
+    if (s.startChains > 0) {
+      const found = await searchStart(
+        corpus,
+        feats,
+        {
+          K,
+          chains: s.startChains,
+          sweeps: s.startSweeps,
+          perturbations: s.startPerturbations,
+          relaxSweeps: s.startRelaxSweeps,
+          restrictedSweeps: s.startRestrictedSweeps,
+          optimizeEvery: s.optimizeEvery,
+          initialization: s.initialization,
+          warmStartSweeps: s.warmStartSweeps,
+          samplerFactory: s.startSamplerFactory ?? s.samplerFactory,
+          optimizeBeta: s.optimizeBeta,
+          optimizeLambda: s.optimizeLambda,
+          priorVariance: s.priorVariance,
+          initial: { lambda, beta },
+        },
+        rng,
+      );
+      z = found.z;
+      lambda = found.lambda;
+      beta = found.beta;
+      startSearch = { chainLogLikelihoods: found.chainLogLikelihoods, chainImprovements: found.chainImprovements };
+    } else {
+      z =
+        s.initialization === 'random'
+          ? randomAssignments(corpus, K, rng)
+          : await initialAssignments(corpus, initPriors, rng, s.samplerFactory, s.warmStartSweeps);
+    }
     trace = [];
     phiSum = new Float64Array(rows * K);
     thetaSum = new Float64Array(G * K);
@@ -117,19 +146,7 @@ export async function fitModel(
       sampler.sweep(rng);
       sweep++;
       if (s.optimizeEvery > 0 && sweep > s.optimizeFrom && sweep % s.optimizeEvery === 0 && sweep < s.sweeps) {
-        if (s.optimizeBeta) {
-          const nkw = sampler.wordTopicCounts();
-          const nk = sampler.topicTotals();
-          beta = beta.slice();
-          for (let l = 0; l < L; l++) {
-            const h = betaHistogram(nkw, corpus.wordBase[l] * K, corpus.wordBase[l + 1] * K, nk.subarray(l * K, (l + 1) * K), corpus.vocabSizes[l]);
-            beta[l] = optimizeBeta(h, beta[l]);
-          }
-        }
-        if (s.optimizeLambda) {
-          const h = dmrHistograms(corpus, sampler.z, K, feats.groupPattern, feats.numPatterns);
-          lambda = optimizeLambda(h, feats.patterns, F, lambda, s.priorVariance).lambda;
-        }
+        ({ lambda, beta } = reestimateHyperparameters(corpus, sampler, feats, K, { lambda, beta }, s));
         priors = { K, groupPattern: feats.groupPattern, alpha: alphaFromLambda(lambda, feats.patterns, K, F), beta };
         sampler.setPriors(priors);
         optimizations++;
@@ -218,6 +235,7 @@ export async function fitModel(
       tokensPerSecond: seconds > 0 ? ((sweep - start) * N) / seconds : 0,
       optimizations,
       finalLogLikelihoodPerToken: trace.length > 0 ? trace[trace.length - 1] : NaN,
+      startSearch,
     },
   };
 }

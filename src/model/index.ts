@@ -28,6 +28,8 @@ export type { Checkpoint } from './checkpoint.js';
 export { DEFAULT_FIT_SETTINGS, fitModel } from './fit.js';
 export { resolveFitSettings } from './fit-settings.js';
 export { initialAssignments } from './initialize.js';
+export { searchStart } from './start-search.js';
+export type { StartSearchSettings, StartState } from './start-search.js';
 export type { FitHooks, FitResult, FitSettings, SweepProgress } from './fit.js';
 export { foldIn } from './fold-in.js';
 export type { FoldInDocument, FoldInModel, FoldInResult, FoldInSettings } from './fold-in.js';

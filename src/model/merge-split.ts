@@ -8,25 +8,15 @@
 // for the Dirichlet process mixture model", J. Comput. Graph. Stat. 2004): merge topics a and b
 // (every b token becomes a), then split topic c into c and the freed label b by restricted Gibbs
 // sweeps that only choose between c and b, using the collapsed conditional of DESIGN §4
-// (Griffiths & Steyvers, PNAS 2004, eq. 5). The move is kept when it raises
-// log p(w, z | α, β). Used greedily, only to build the starting state (never between saved
-// samples): any starting state is valid for a Markov chain.
+// (Griffiths & Steyvers, PNAS 2004, eq. 5). Here it is a perturbation for a search, not an MCMC
+// move: the caller lets the chain relax for some sweeps and keeps the result only if the joint
+// likelihood is then higher (iterated local search, common practice). Used only to build the
+// starting state (never between saved samples): any starting state is valid for a Markov chain.
 import { logJointLikelihood } from './log-likelihood.js';
+import { relabelLanguages } from './relabel.js';
 import type { Corpus, Priors, Rng } from './types.js';
 
-export interface MergeSplitSettings {
-  /** Restricted Gibbs sweeps per split (Jain & Neal 2004 use a handful; common practice). */
-  restrictedSweeps: number;
-  /** Rounds over all (merge pair, split topic) candidates; stops early when none helps. */
-  rounds: number;
-}
-
-export interface MergeSplitResult {
-  accepted: number;
-  gain: number;
-}
-
-/** Token indices of topic c after merging b into a, in corpus order; z is updated. */
+/** Splits topic c into c and the empty label b by restricted Gibbs sweeps from a random halving. */
 export function splitTopic(corpus: Corpus, z: Uint16Array, priors: Priors, c: number, b: number, sweeps: number, rng: Rng): void {
   const K = priors.K;
   const L = corpus.languages.length;
@@ -80,37 +70,37 @@ export function splitTopic(corpus: Corpus, z: Uint16Array, priors: Priors, c: nu
 }
 
 /**
- * Greedy merge–split moves (see the file header); z is changed in place and keeps only moves
- * that raise the joint log-likelihood under `priors`.
+ * One merge–split perturbation (see the file header): merge one of the `choices` pairs whose
+ * merge costs least likelihood, then split the topic whose split (followed by per-language
+ * relabelling) scores best. z is changed in place; the caller decides whether to keep the result
+ * after letting the chain relax. Cost: K(K−1) likelihood evaluations for the merges and K−2
+ * restricted splits, each O(tokens of the topic · restrictedSweeps).
  */
-export function mergeSplitSearch(corpus: Corpus, z: Uint16Array, priors: Priors, rng: Rng, settings: MergeSplitSettings): MergeSplitResult {
+export function perturbMergeSplit(corpus: Corpus, z: Uint16Array, priors: Priors, rng: Rng, restrictedSweeps: number, choices = 3): void {
   const K = priors.K;
-  const result: MergeSplitResult = { accepted: 0, gain: 0 };
-  if (K < 3 || z.length === 0) return result;
-  let current = logJointLikelihood(corpus, z, K, priors);
+  if (K < 3 || z.length === 0) return;
+  const merges: [number, number, number][] = [];
   const trial = new Uint16Array(z.length);
-  for (let round = 0; round < settings.rounds; round++) {
-    let improved = false;
-    for (let a = 0; a < K; a++) {
-      for (let b = 0; b < K; b++) {
-        if (b === a) continue;
-        for (let c = 0; c < K; c++) {
-          if (c === a || c === b) continue;
-          trial.set(z);
-          for (let i = 0; i < trial.length; i++) if (trial[i] === b) trial[i] = a;
-          splitTopic(corpus, trial, priors, c, b, settings.restrictedSweeps, rng);
-          const ll = logJointLikelihood(corpus, trial, K, priors);
-          if (ll > current + 1e-9) {
-            result.gain += ll - current;
-            result.accepted++;
-            current = ll;
-            z.set(trial);
-            improved = true;
-          }
-        }
-      }
+  for (let a = 0; a < K; a++) {
+    for (let b = 0; b < K; b++) {
+      if (a === b) continue;
+      trial.set(z);
+      for (let i = 0; i < trial.length; i++) if (trial[i] === b) trial[i] = a;
+      merges.push([logJointLikelihood(corpus, trial, K, priors), a, b]);
     }
-    if (!improved) break;
   }
-  return result;
+  merges.sort((x, y) => y[0] - x[0] || x[1] - y[1] || x[2] - y[2]);
+  const [, a, b] = merges[Math.min(merges.length - 1, rng.nextInt(Math.max(1, choices)))];
+  let best = -Infinity;
+  let bestZ: Uint16Array | null = null;
+  for (let c = 0; c < K; c++) {
+    if (c === a || c === b) continue;
+    const t = z.slice();
+    for (let i = 0; i < t.length; i++) if (t[i] === b) t[i] = a;
+    splitTopic(corpus, t, priors, c, b, restrictedSweeps, rng);
+    relabelLanguages(corpus, t, priors);
+    const ll = logJointLikelihood(corpus, t, K, priors);
+    if (ll > best) (best = ll), (bestZ = t);
+  }
+  if (bestZ) z.set(bestZ);
 }

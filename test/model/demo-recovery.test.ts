@@ -10,6 +10,7 @@ import { defaultPipelineSettings, identifyLanguages, mapColumns, prepareText, re
 import { buildCorpus } from '../../src/model/corpus.js';
 import { buildGroupFeatures, type CovariateValue, type GroupFeatures } from '../../src/model/features.js';
 import { fitModel, type FitResult } from '../../src/model/fit.js';
+import { createFastSampler } from '../../src/model/fast-sampler.js';
 
 const truth: DemoTruth = JSON.parse(readFileSync(join(DEMO_DIR, DEMO_FILE_NAMES.truth), 'utf8'));
 const TOP = 10;
@@ -37,7 +38,18 @@ beforeAll(async () => {
   });
   groupRows = [...built.groupFirstInput].map((j) => docs[kept[j]].covariates);
   features = buildGroupFeatures(groupRows, DEMO_COLUMNS.covariates);
-  fit = await fitModel(built.corpus, features, { K: 8, sweeps: 300, burnIn: 200, sampleEvery: 5, optimizeEvery: 10, seed: 20251 });
+  fit = await fitModel(built.corpus, features, {
+    K: 8,
+    sweeps: 300,
+    burnIn: 200,
+    sampleEvery: 5,
+    optimizeEvery: 10,
+    seed: 20251,
+    samplerFactory: createFastSampler,
+    // The start search (src/model/start-search.ts): one chain, 15 perturbations.
+    startChains: 1,
+    startPerturbations: 15,
+  });
 
   // Score of fitted topic k for planted theme t: share of its top words, over languages, that are t's words.
   const score = truth.themes.map((th) =>
@@ -76,11 +88,11 @@ function themeShareOfTop(theme: string, l: number, k: number): number {
 
 describe('demo study recovery (demo/truth.json)', () => {
   // Known shortfall, listed rather than hidden: issue 4 asks for every planted theme in every
-  // language. A fit started from the planted assignments stays there with a log-likelihood per
-  // token of −4.79, while seeded fits from our initialization reach −4.84 … −4.95: the sampler
-  // ends in local modes (a theme split in two, two themes merged, in some languages), not a
-  // model that prefers another answer. Until the search improves, this test guards the level
-  // reached: English (the largest language) finds every theme, and most (theme, language) cells.
+  // language. A fit started from the planted assignments reaches −4.79 nats per token and 39/40
+  // cells (staff/ja fails even there: Japanese fillers such as もっと, ですが, いつも, したら and
+  // the English "and", "the" are not stop words and fill its top 10). With the start search,
+  // seeded fits reach −4.79 … −4.84 and 32–37 of 40 cells (without it: −4.84 … −4.95, 18–34).
+  // Until the search improves, this test guards the level reached.
   it('matches the planted themes to distinct fitted themes whose top words are mostly its words', () => {
     expect(new Set(match).size).toBe(8);
     const misses: string[] = [];
@@ -94,7 +106,7 @@ describe('demo study recovery (demo/truth.json)', () => {
       });
     });
     console.log(`demo recovery: ${good}/${8 * languages.length} (theme, language) cells with ≥ 60% theme words in the top ${TOP}; misses: ${misses.join(' | ')}`);
-    expect(good / (8 * languages.length)).toBeGreaterThanOrEqual(0.6);
+    expect(good / (8 * languages.length)).toBeGreaterThanOrEqual(0.75);
   });
 
   it('finds the planted effects in mean theme shares per level and in λ for themes found in most languages', () => {
