@@ -52,7 +52,7 @@ export function checkPassword(store: Store, name: string, password: string): Acc
 }
 
 export function setPassword(store: Store, accountId: number, password: string): void {
-  if (password.length < 8) throw new Error('Choose a password of at least 8 characters.');
+  if ([...password].length < MIN_PASSWORD_LENGTH) throw new Error(`Choose a password of at least ${MIN_PASSWORD_LENGTH} characters.`);
   inTransaction(store, () => {
     store.db.prepare('UPDATE accounts SET password_hash = ? WHERE id = ?').run(hashPassword(password), accountId);
     store.db.prepare('DELETE FROM sessions WHERE account_id = ?').run(accountId);

@@ -5,7 +5,7 @@ import { readdirSync, readFileSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createFitRun, runFitJob } from '../../src/services/index.js';
-import { addStudyMember, checkPassword, countAccounts, createAccount, insertDocuments, insertImport, listDocuments, setRunStatus, topWords } from '../../src/store/index.js';
+import { addStudyMember, checkPassword, countAccounts, createAccount, setPassword, insertDocuments, insertImport, listDocuments, setRunStatus, topWords } from '../../src/store/index.js';
 import { SignInThrottle } from '../../src/server/index.js';
 import { syntheticStudy } from '../services/synthetic-study.js';
 import { HTML, inventedSurvey, LOCAL_CSRF, makeApp, postFile, postForm, type TestApp } from '../server/helpers.js';
@@ -146,9 +146,13 @@ describe('sign-in throttling and secure cookies (ASVS V2.2.1, V3.4.1, V3.4.4)', 
     }
   });
 
-  // Blocked on src/store/accounts.ts (createAccount, setPassword) and src/cli/admin-commands.ts,
-  // which still ask for 8 characters; see SECURITY.md, V2.1.1.
-  it.todo('V2.1.1: an account cannot be given a password shorter than 12 characters');
+  it('V2.1.1: an account cannot be given a password shorter than 12 characters', () => {
+    // Characters, not UTF-16 units: eleven emoji are eleven characters.
+    expect(() => createAccount(t.store, 'short-pw', 'elevenchars')).toThrow(/at least 12 characters/);
+    expect(() => createAccount(t.store, 'emoji-pw', '😀'.repeat(11))).toThrow(/at least 12 characters/);
+    const account = createAccount(t.store, 'long-pw', 'twelve chars');
+    expect(() => setPassword(t.store, account.id, 'elevenchars')).toThrow(/at least 12 characters/);
+  });
 });
 
 describe('headers, errors and files (ASVS V4.3, V7, V12, V14)', () => {
