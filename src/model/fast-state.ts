@@ -10,6 +10,8 @@
 // row has at most min(K, freq(w)) non-zero topics, so the lists live in one pool of
 // Σ_w min(K, freq(w)) ≤ N slots (2 + 4 bytes each). Sorting by count puts the likely old topic
 // first when it is looked up, and is kept by one bubble step per change, as in SparseLDA.
+// Ties are ordered by topic number, so the order is a function of the counts alone and a state
+// rebuilt from z (resume from a checkpoint) holds exactly the lists of the running one.
 // The dense n_kw of the Sampler contract is rebuilt from the lists only when asked for.
 //
 // Everything here is derivable from z (types.ts): the state is rebuilt from z on construction.
@@ -146,7 +148,7 @@ export class FastState {
       let j = ws;
       while (wlTopics[j] !== old) j++;
       let c = --wlCounts[j];
-      while (j + 1 < end && wlCounts[j + 1] > c) {
+      while (j + 1 < end && (wlCounts[j + 1] > c || (wlCounts[j + 1] === c && wlTopics[j + 1] < old))) {
         wlCounts[j] = wlCounts[j + 1];
         wlTopics[j] = wlTopics[j + 1];
         j++;
@@ -164,7 +166,7 @@ export class FastState {
         end++;
       }
       c = ++wlCounts[j];
-      while (j > ws && wlCounts[j - 1] < c) {
+      while (j > ws && (wlCounts[j - 1] < c || (wlCounts[j - 1] === c && wlTopics[j - 1] > nw))) {
         wlCounts[j] = wlCounts[j - 1];
         wlTopics[j] = wlTopics[j - 1];
         j--;

@@ -117,14 +117,16 @@ export function sweepGroups(
         r += b * c * iv;
         coef[old] = (c + a) * iv;
         if (gn === 0) r = 0;
-        // Word list: decrement n_kw of the old topic, bubbling down to keep the count order;
-        // at zero it is last and drops off.
+        // Word list: decrement n_kw of the old topic, bubbling down to keep the order (count
+        // descending, then topic ascending: a total order that is a function of the counts alone,
+        // so a list rebuilt from z at a checkpoint is the same list and a resumed run draws the
+        // same topics); at zero it is last and drops off.
         const ws = wlStart[row];
         let we = ws + wlLen[row];
         let j = ws;
         while (wlTopics[j] !== old) j++;
         let cw = wlCounts[j] - 1;
-        while (j + 1 < we && wlCounts[j + 1] > cw) {
+        while (j + 1 < we && (wlCounts[j + 1] > cw || (wlCounts[j + 1] === cw && wlTopics[j + 1] < old))) {
           wlCounts[j] = wlCounts[j + 1];
           wlTopics[j] = wlTopics[j + 1];
           j++;
@@ -201,7 +203,7 @@ export function sweepGroups(
           }
         }
         cw = wlCounts[at] + 1;
-        while (at > ws && wlCounts[at - 1] < cw) {
+        while (at > ws && (wlCounts[at - 1] < cw || (wlCounts[at - 1] === cw && wlTopics[at - 1] > nw))) {
           wlCounts[at] = wlCounts[at - 1];
           wlTopics[at] = wlTopics[at - 1];
           at--;

@@ -44,11 +44,11 @@ beforeAll(async () => {
     burnIn: 200,
     sampleEvery: 5,
     optimizeEvery: 10,
-    seed: 20251,
+    seed: Number(process.env.DEMO_SEED ?? 20251),
     samplerFactory: createFastSampler,
     // The start search (src/model/start-search.ts): one chain, 15 perturbations.
-    startChains: 1,
-    startPerturbations: 15,
+    startChains: Number(process.env.DEMO_CHAINS ?? 1),
+    startPerturbations: Number(process.env.DEMO_PERT ?? 15),
   });
 
   // Score of fitted topic k for planted theme t: share of its top words, over languages, that are t's words.

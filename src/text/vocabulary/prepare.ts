@@ -2,7 +2,8 @@
 // non-answers and undetermined documents set aside with their reason, tokens cut, stop words
 // removed, words stemmed, optional collocations joined, rare and ubiquitous stems pruned, short
 // documents excluded. Word ids are ordered by frequency (id 0 is a language's most frequent stem).
-import { languageKey } from '../language/languages.js';
+import { languageInfo, languageKey } from '../language/languages.js';
+import { countScripts } from '../language/scripts.js';
 import { isNonAnswer } from '../tokens/non-answer.js';
 import { stemmerFor } from '../tokens/stemmer.js';
 import { stopWordSet } from '../tokens/stop-words.js';
@@ -26,6 +27,8 @@ interface LanguageState {
   /** Normal (lower-cased, unstemmed) form → [stem id, count]. */
   readonly normals: Map<string, [number, number]>;
   readonly stop: Set<string>;
+  /** Stop words of the study's other languages written in another script (see foreignStopWords). */
+  readonly foreignStop: Set<string>;
   readonly stem: (word: string) => string;
   readonly docs: number[];
 }
@@ -67,10 +70,15 @@ export function prepareText(
     if (isNonAnswer(text, language, study)) excluded[i] = 'non-answer';
     else if (language === null) excluded[i] = 'undetermined';
     else {
-      const state = stateFor(states, language, settings);
+      const state = stateFor(states, language, settings, study);
       scratch.length = 0;
       scanTokens(text, language, (kind, _surface, normal) => {
-        if (kind !== 'word' || state.stop.has(normal) || (language === 'ja' && KANA_PARTICLE.test(normal))) {
+        if (
+          kind !== 'word' ||
+          state.stop.has(normal) ||
+          (state.foreignStop.has(normal) && isForeignScript(normal, language)) ||
+          (language === 'ja' && KANA_PARTICLE.test(normal))
+        ) {
           if (scratch.length > 0 && scratch[scratch.length - 1] !== GAP) scratch.push(GAP);
           return;
         }
@@ -104,7 +112,7 @@ export function prepareText(
   };
 }
 
-function stateFor(states: Map<string, LanguageState>, language: string, settings: PipelineSettings): LanguageState {
+function stateFor(states: Map<string, LanguageState>, language: string, settings: PipelineSettings, study: readonly string[]): LanguageState {
   let state = states.get(language);
   if (state === undefined) {
     state = {
@@ -113,12 +121,40 @@ function stateFor(states: Map<string, LanguageState>, language: string, settings
       stems: [],
       normals: new Map(),
       stop: stopWordSet(language, settings.extraStopWords),
+      foreignStop: foreignStopWords(language, study, settings),
       stem: stemmerFor(language, settings),
       docs: [],
     };
     states.set(language, state);
   }
   return state;
+}
+
+// Mixed-language answers ("司書 and スタッフ", "the カフェ"): a word of another study language
+// written in another script is that language's word, so that language's stop list applies to it.
+// Words in the document language's own script(s) are never judged by a foreign list (a Chinese
+// function character can be a Japanese content word). Common practice.
+const SCRIPT_FAMILY: Readonly<Record<string, readonly string[]>> = { Kana: ['Kana', 'Han'], Hangul: ['Hangul', 'Han'] };
+
+function foreignStopWords(language: string, study: readonly string[], settings: PipelineSettings): Set<string> {
+  const own = languageInfo(language)?.script;
+  const out = new Set<string>();
+  if (own === undefined) return out;
+  for (const other of study) {
+    const script = languageInfo(other)?.script;
+    if (other === language || script === undefined || script === own || (SCRIPT_FAMILY[own] ?? [own]).includes(script)) continue;
+    for (const word of stopWordSet(other, settings.extraStopWords)) out.add(word);
+  }
+  return out;
+}
+
+/** True when no letter of the word belongs to the script(s) the language is written in. */
+function isForeignScript(word: string, language: string): boolean {
+  const own = languageInfo(language)?.script;
+  if (own === undefined) return false;
+  const { counts, letters } = countScripts(word);
+  if (letters === 0) return false;
+  return (SCRIPT_FAMILY[own] ?? [own]).every((script) => (counts[script as keyof typeof counts] ?? 0) === 0);
 }
 
 function idOf(state: LanguageState, normal: string): number {
