@@ -4,8 +4,11 @@ import { randomBytes } from 'node:crypto';
 import { isIP } from 'node:net';
 import { serve } from '@hono/node-server';
 import { JobQueue } from '../jobs/index.js';
-import { ensureDemoStudy } from '../services/index.js';
-import { countAccounts, openStore } from '../store/index.js';
+import { createFitRun, ensureDemoStudy } from '../services/index.js';
+
+/** The run queued when the demo study is first imported. */
+export const DEMO_RUN = { name: 'Eight themes (demo)', themes: 8, sweeps: 400, seed: 20251, holdout: 0.1, covariates: ['branch_region', 'channel', 'age_band', 'wave'] } as const;
+import { countAccounts, listRuns, openStore } from '../store/index.js';
 import { createApp } from './app.js';
 import { normaliseAllowedHost } from './hosts.js';
 
@@ -77,11 +80,17 @@ export async function startServer(options: StartServerOptions): Promise<RunningS
         'Add one with `themata users add NAME`, or serve on 127.0.0.1 for use on this computer only.',
     );
   }
-  if (options.demo) {
-    await ensureDemoStudy(store);
-  }
+  const demo = options.demo ? await ensureDemoStudy(store) : null;
   const queue = new JobQueue({ store, concurrency: options.concurrency });
   queue.start();
+  if (demo !== null && demo.status !== 'skipped' && demo.studyId !== null && listRuns(store, demo.studyId).length === 0) {
+    // A newcomer's first look should include themes: while the demo study has no run, a start
+    // queues one run of the demo's eight themes with its four covariates (within a minute on two
+    // cores). The command line imports the demo before it starts the server, so this keys on
+    // "no run yet", not on "imported just now".
+    const run = createFitRun(store, demo.studyId, { ...DEMO_RUN, covariates: [...DEMO_RUN.covariates] });
+    queue.enqueue(run.id);
+  }
   const app = createApp({
     store,
     queue,
