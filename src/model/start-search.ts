@@ -97,6 +97,10 @@ async function runChain(corpus: Corpus, features: GroupFeatures, s: StartSearchS
       else perturbMergeSplit(corpus, trial, priors, rng, s.restrictedSweeps);
       await restart(corpus, chain, features, s, trial);
       await runSweeps(corpus, chain, features, s, s.relaxSweeps, rng);
+      // A perturbation often leaves one language's topic under the wrong label; relabel before
+      // judging, since a swap only raises the likelihood (relabel.ts).
+      const relaxed = chain.sampler.z.slice();
+      if (relabelLanguages(corpus, relaxed, priorsFrom(features, K, chain)).swaps > 0) await restart(corpus, chain, features, s, relaxed);
       const ll = logJointLikelihood(corpus, chain.sampler.z, K, priorsFrom(features, K, chain));
       if (ll > current) {
         current = ll;

@@ -46,9 +46,11 @@ beforeAll(async () => {
     optimizeEvery: 10,
     seed: Number(process.env.DEMO_SEED ?? 20251),
     samplerFactory: createFastSampler,
-    // The start search (src/model/start-search.ts): one chain, 15 perturbations.
-    startChains: Number(process.env.DEMO_CHAINS ?? 1),
-    startPerturbations: Number(process.env.DEMO_PERT ?? 15),
+    // The start search (src/model/start-search.ts) with the workbench's setting for modest fits
+    // (startSearchFor in src/services/fit-engine.ts): two chains, 30 perturbations each.
+    // DEMO_SEED, DEMO_CHAINS and DEMO_PERT override them to check other seeds by hand.
+    startChains: Number(process.env.DEMO_CHAINS ?? 2),
+    startPerturbations: Number(process.env.DEMO_PERT ?? 30),
   });
 
   // Score of fitted topic k for planted theme t: share of its top words, over languages, that are t's words.
@@ -87,12 +89,12 @@ function themeShareOfTop(theme: string, l: number, k: number): number {
 }
 
 describe('demo study recovery (demo/truth.json)', () => {
-  // Known shortfall, listed rather than hidden: issue 4 asks for every planted theme in every
-  // language. A fit started from the planted assignments reaches −4.79 nats per token and 39/40
-  // cells (staff/ja fails even there: Japanese fillers such as もっと, ですが, いつも, したら and
-  // the English "and", "the" are not stop words and fill its top 10). With the start search,
-  // seeded fits reach −4.79 … −4.84 and 32–37 of 40 cells (without it: −4.84 … −4.95, 18–34).
-  // Until the search improves, this test guards the level reached.
+  // Issue 4 asks for every planted theme in every language. At seed 20251 this fit finds all 40
+  // (theme, language) cells; at other seeds it finds 37–39 (seeds 7 and 42: 38 and 37 with this
+  // setting, 39 and 39 with three chains), the usual miss being staff/ja taking the rare fixed
+  // phrase おむつ替え台とベビーカー置き場 (5 of its top 10). The test asserts the full bar for
+  // English and at least 38 of 40 cells, so a change in the samplers' random streams alone does
+  // not turn it red while a real loss of recovery does; the log line shows the exact count.
   it('matches the planted themes to distinct fitted themes whose top words are mostly its words', () => {
     expect(new Set(match).size).toBe(8);
     const misses: string[] = [];
@@ -106,7 +108,7 @@ describe('demo study recovery (demo/truth.json)', () => {
       });
     });
     console.log(`demo recovery: ${good}/${8 * languages.length} (theme, language) cells with ≥ 60% theme words in the top ${TOP}; misses: ${misses.join(' | ')}`);
-    expect(good / (8 * languages.length)).toBeGreaterThanOrEqual(0.75);
+    expect(good, misses.join(' | ')).toBeGreaterThanOrEqual(Math.ceil(0.95 * 8 * languages.length));
   });
 
   it('finds the planted effects in mean theme shares per level and in λ for themes found in most languages', () => {

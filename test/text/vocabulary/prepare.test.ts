@@ -87,6 +87,29 @@ describe('prepareText', () => {
     expect(surfacesOf(prepared, 'en')).toEqual(['parking']);
   });
 
+  it("drops another study language's stop words written in another script (mixed-language answers)", () => {
+    const docs = [
+      { language: 'ja', text: '司書 and スタッフ the 感謝 wifi' },
+      { language: 'en', text: 'friendly staff and the librarians' },
+    ];
+    const ja = surfacesOf(prepareText(docs, settings()), 'ja');
+    expect(ja).not.toContain('and');
+    expect(ja).not.toContain('the');
+    // A Latin word that is no English stop word stays; so do the Japanese words.
+    expect(ja).toEqual(expect.arrayContaining(['司書', 'スタッフ', '感謝', 'wifi']));
+    // Without English among the study's languages, no English list applies.
+    expect(surfacesOf(prepareText([docs[0]], settings()), 'ja')).toContain('and');
+  });
+
+  it("never judges a word in the document language's own script by a foreign list", () => {
+    // 的 is a Chinese stop word; in a Japanese answer (Han is a Japanese script) it stays.
+    const docs = [
+      { language: 'ja', text: '的 図書館' },
+      { language: 'zh', text: '我的 图书馆' },
+    ];
+    expect(surfacesOf(prepareText(docs, settings()), 'ja')).toContain('的');
+  });
+
   it('joins frequent pairs with high NPMI into one token, only across adjacent words', () => {
     const docs = [
       ...Array.from({ length: 6 }, () => ({ language: 'en', text: 'waiting time too long at reception' })),
