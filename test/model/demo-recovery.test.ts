@@ -92,9 +92,10 @@ describe('demo study recovery (demo/truth.json)', () => {
   // Issue 4 asks for every planted theme in every language. At seed 20251 this fit finds all 40
   // (theme, language) cells; at other seeds it finds 37–39 (seeds 7 and 42: 38 and 37 with this
   // setting, 39 and 39 with three chains), the usual miss being staff/ja taking the rare fixed
-  // phrase おむつ替え台とベビーカー置き場 (5 of its top 10). The test asserts the full bar for
-  // English and at least 38 of 40 cells, so a change in the samplers' random streams alone does
-  // not turn it red while a real loss of recovery does; the log line shows the exact count.
+  // phrase おむつ替え台とベビーカー置き場 (5 of its top 10). The fit is deterministic for its seed,
+  // so the test asserts the issue's bar exactly at that seed: every theme in every language. A
+  // change of the samplers' random streams can turn it red; the log line then names the misses,
+  // and other seeds are checked by hand with DEMO_SEED.
   it('matches the planted themes to distinct fitted themes whose top words are mostly its words', () => {
     expect(new Set(match).size).toBe(8);
     const misses: string[] = [];
@@ -108,7 +109,7 @@ describe('demo study recovery (demo/truth.json)', () => {
       });
     });
     console.log(`demo recovery: ${good}/${8 * languages.length} (theme, language) cells with ≥ 60% theme words in the top ${TOP}; misses: ${misses.join(' | ')}`);
-    expect(good, misses.join(' | ')).toBeGreaterThanOrEqual(Math.ceil(0.95 * 8 * languages.length));
+    expect(good, misses.join(' | ')).toBe(8 * languages.length);
   });
 
   it('finds the planted effects in mean theme shares per level and in λ for themes found in most languages', () => {
