@@ -63,8 +63,16 @@ export function runContrasts(store: Store, model: RunModel, request: ContrastReq
   });
   // Resample a link group's answers together (cluster bootstrap, Davison & Hinkley 1997, §3.8).
   const options = { weights, clusterOfDoc: model.docGroup, draws: request.draws ?? 1000, seed: request.seed ?? 1, themeLabels: model.labels, fdr: request.fdr === undefined ? 0.05 : request.fdr, ...(request.reference ? { reference: request.reference } : {}) };
-  const withNote = (res: ContrastResult): ContrastResult =>
-    merged ? { ...res, excludedDocuments: res.excludedDocuments - merged, notes: [...res.notes, `Linked answers are one respondent: each link group counts once per level (its first answer and weight); ${merged} linked ${merged === 1 ? 'answer was' : 'answers were'} not counted again.`] } : res;
+  // The linked answers set aside above reach the statistics as "left out"; say what they are
+  // instead, and count as left out only the answers that really lack a value or a weight.
+  const withNote = (res: ContrastResult): ContrastResult => {
+    if (!merged) return res;
+    const excluded = res.excludedDocuments - merged;
+    const notes = res.notes.filter((n) => !/document\(s\) left out/.test(n));
+    if (excluded > 0) notes.unshift(`${excluded} document(s) left out: no value for "${request.by}" or an unusable weight.`);
+    notes.push(`Linked answers are one respondent: each link group counts once per level (its first answer and weight); ${merged} linked ${merged === 1 ? 'answer was' : 'answers were'} not counted again.`);
+    return { ...res, excludedDocuments: excluded, notes };
+  };
   if (numeric) {
     const values = Float64Array.from(raw, (v) => (typeof v === 'number' ? v : NaN));
     return withNote(groupContrasts({ K, D, samples }, { name: request.by, kind: 'numeric', values, bins: request.bins }, options));

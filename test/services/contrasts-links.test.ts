@@ -55,6 +55,9 @@ describe('contrasts with linked translations', () => {
     const res = runContrasts(ctx.store, model, { by: 'region', draws: 50 });
     expect(res.notes.join(' ')).toMatch(/cluster bootstrap/);
     expect(res.notes.join(' ')).toMatch(/Linked answers are one respondent.*12 linked answers/);
+    // The linked answers not counted again are not reported as answers without a value.
+    expect(res.notes.join(' ')).not.toMatch(/left out/);
+    expect(res.excludedDocuments).toBe(0);
     expect(res.excludedDocuments).toBe(0);
   });
 });
