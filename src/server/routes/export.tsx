@@ -15,6 +15,8 @@ import type { RunData, RunDataCache } from '../results/run-data.js';
 import type { AppEnv } from '../types.js';
 import { text } from './forms.js';
 
+// The report inlines the workbench's own stylesheet and its few report-only rules after it.
+const APP_CSS = new URL('../../../public/app.css', import.meta.url);
 const REPORT_CSS = new URL('../../../public/report.css', import.meta.url);
 
 function canEdit(c: Context<AppEnv>, study: Study): boolean {
@@ -44,7 +46,7 @@ async function reportHtml(study: Study, data: RunData): Promise<string> {
       run={model.run.name}
       createdAt={new Date().toISOString()}
       settings={`${s.themes} themes, ${s.sweeps} sweeps, seed ${s.seed}.`}
-      css={readFileSync(REPORT_CSS, 'utf8')}
+      css={readFileSync(APP_CSS, 'utf8') + '\n' + readFileSync(REPORT_CSS, 'utf8')}
       languages={model.languages}
       themes={model.labels.map((label, k) => ({ k, label, share: data.shares[k], words: Object.fromEntries(model.languages.map((l) => [l, data.topWords(k, l, 8).map((w) => w.word)])) }))}
       groups={groups}
