@@ -15,6 +15,8 @@
 //              sampler, the reference included. Likelihood evaluation is not timed.
 //   bytesPerToken: bytes of fast-sampler state that grow with the tokens (z + word lists),
 //              divided by tokens; dense n_kw (vocabulary × K) is reported apart as tableBytes.
+//              bytesPerTokenAll: the same for the parallel sampler (a copy of the word lists per
+//              thread, plus two move logs per partition).
 // JSON (last stdout line with --json): one object, every figure an array indexed like `k`.
 import { availableParallelism } from 'node:os';
 import type { BenchOptions } from './run.js';
@@ -60,6 +62,7 @@ export async function runBench(options: BenchOptions): Promise<Record<string, un
       fastOverFloor: rows.map((r) => r.fast1Cpu / r.floorCpu),
     },
     bytesPerToken: pick('bytesPerToken'),
+    bytesPerTokenAll: pick('bytesPerTokenAll'),
     tableBytes: pick('tableBytes'),
     tokens: N,
     groups: built.corpus.numGroups,
@@ -68,12 +71,13 @@ export async function runBench(options: BenchOptions): Promise<Record<string, un
     peakRssMB: process.resourceUsage().maxRSS / 1024,
   };
   log('');
-  log('K      floor M/s  ref M/s  fast1 M/s  fastAll M/s  fast/ref  fast/floor  all/one  ttq fast/ref  bytes/token');
+  log('K      floor M/s  ref M/s  fast1 M/s  fastAll M/s  fast/ref  fast/floor  all/one  ttq fast1/ref  ttq all/ref  bytes/token  (all cores)');
   rows.forEach((r, i) => {
     log(
       `${String(r.K).padEnd(6)} ${(r.floor / 1e6).toFixed(2).padStart(9)}  ${(r.reference / 1e6).toFixed(2).padStart(7)}  ${(r.fast1 / 1e6).toFixed(2).padStart(9)}  ${(r.fastAll / 1e6).toFixed(2).padStart(11)}  ` +
         `${(result.fastOverReference as number[])[i].toFixed(2).padStart(8)}  ${(result.fastOverFloor as number[])[i].toFixed(2).padStart(10)}  ${(result.allOverOne as number[])[i].toFixed(2).padStart(7)}  ` +
-        `${(result.timeToQualityRatio as number[])[i].toFixed(3).padStart(12)}  ${r.bytesPerToken.toFixed(2).padStart(11)}`,
+        `${(result.timeToQualityRatio as number[])[i].toFixed(3).padStart(13)}  ${(result.timeToQualityRatioAll as number[])[i].toFixed(3).padStart(11)}  ` +
+        `${r.bytesPerToken.toFixed(2).padStart(11)}  ${('(' + r.bytesPerTokenAll.toFixed(2) + ')').padStart(11)}`,
     );
   });
   log('per CPU second (single-threaded loops; robust when other programs share the cores):');

@@ -1,6 +1,14 @@
 // The page frame: header with where-am-I links, the study and run tabs, and the scripts (all
 // served by Themata itself; no inline script, so the content security policy can forbid it).
 import type { Child } from 'hono/jsx';
+import { Notice, when } from './components.js';
+
+/** A password change the signed-in session has not been told of (OWASP ASVS 4.0.3 V2.2.3, V2.5.5). */
+export interface PasswordChangeNotice {
+  readonly changedAt: string;
+  readonly by: 'account' | 'operator';
+  readonly changes: number;
+}
 
 export interface PageFrame {
   readonly title: string;
@@ -10,6 +18,8 @@ export interface PageFrame {
   readonly run?: { readonly id: number; readonly name: string; readonly status: string };
   /** Which tab is current: 'data' | 'languages' | … | 'themes' | … */
   readonly active?: string;
+  /** Shown once at the top of the page, then never again for this session. */
+  readonly passwordNotice?: PasswordChangeNotice;
 }
 
 const STUDY_TABS = [
@@ -27,6 +37,18 @@ const RUN_TABS = [
   ['export', 'Export'],
   ['apply', 'Apply'],
 ] as const;
+
+/** How a password was changed, as the notice and the Account page say it. */
+export const PASSWORD_CHANGED_BY = {
+  account: 'on the Account page',
+  operator: "by the server's operator with the command line",
+} as const;
+
+/** "Your password was changed on DATE (how). If this was not you, …" */
+export function passwordNoticeText(notice: PasswordChangeNotice): string {
+  const times = notice.changes > 1 ? ` ${notice.changes} times, most recently` : '';
+  return `Your password was changed${times} on ${when(notice.changedAt)} ${PASSWORD_CHANGED_BY[notice.by]}. If this was not you, tell the server's operator at once.`;
+}
 
 /** Hidden CSRF field for ordinary (non-htmx) forms. */
 export function CsrfField(props: { csrf: string }) {
@@ -71,7 +93,7 @@ export function Layout(props: PageFrame & { children: Child }) {
             ) : (
               <form method="post" action="/logout" class="inline">
                 <CsrfField csrf={props.csrf} />
-                <span>{props.user.name}</span> <button type="submit" class="link">Sign out</button>
+                <span>{props.user.name}</span> <a href="/account">Account</a> <button type="submit" class="link">Sign out</button>
               </form>
             )}
           </div>
@@ -90,7 +112,14 @@ export function Layout(props: PageFrame & { children: Child }) {
             ))}
           </nav>
         )}
-        <main id="main">{props.children}</main>
+        <main id="main">
+          {props.passwordNotice && (
+            <div id="password-notice">
+              <Notice kind="error">{passwordNoticeText(props.passwordNotice)}</Notice>
+            </div>
+          )}
+          {props.children}
+        </main>
         <footer class="foot">Themata · themes across languages and groups</footer>
       </body>
     </html>

@@ -30,6 +30,8 @@ export interface KFigures {
   referenceCpu: number;
   fast1Cpu: number;
   bytesPerToken: number;
+  /** The same for the parallel sampler: z, one copy of the word lists per thread, move logs. */
+  bytesPerTokenAll: number;
   tableBytes: number;
 }
 
@@ -181,6 +183,7 @@ export async function measureK(b: BenchCorpus, K: number, o: MeasureOptions): Pr
     sweepsFast1: fast.sweepsToTarget,
     sweepsFastAll: parallel.sweepsToTarget,
     bytesPerToken: fast.bytes / N,
+    bytesPerTokenAll: parallel.bytes / N,
     tableBytes: table,
   };
 }

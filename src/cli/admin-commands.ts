@@ -1,13 +1,34 @@
 // users and serve.
 import type { Command } from 'commander';
 import { ensureDemoStudy } from '../services/index.js';
-import { createAccount, giveOwnerlessStudiesToFirstAccount, MIN_PASSWORD_LENGTH } from '../store/index.js';
+import { describeScanning, scannerFromSetting } from '../services/scan-upload.js';
+import { createAccount, getAccountByName, giveOwnerlessStudiesToFirstAccount, passwordProblem, setPassword } from '../store/index.js';
 import { InputError } from '../text/types.js';
 import { describeImport } from './study-commands.js';
 import type { CliContext } from './context.js';
 
 interface ServerModule {
-  startServer(options: { host: string; port?: number; dataDir: string; demo: boolean }): Promise<{ url: string; close(): Promise<void> }>;
+  startServer(options: {
+    host: string;
+    port?: number;
+    dataDir: string;
+    demo: boolean;
+    secureCookies?: boolean;
+    allowedHosts?: readonly string[];
+    requestLimits?: unknown;
+    uploadScanner?: unknown;
+  }): Promise<{ url: string; close(): Promise<void> }>;
+  requestLimitsFor(perSecond: number): unknown;
+}
+
+interface ServeFlags {
+  host: string;
+  port?: string;
+  demo?: boolean;
+  secureCookies?: boolean;
+  allowedHosts?: string;
+  requestsPerSecond?: string;
+  scanCommand?: string;
 }
 
 export function registerAdminCommands(program: Command, ctx: CliContext): void {
@@ -18,12 +39,7 @@ export function registerAdminCommands(program: Command, ctx: CliContext): void {
     .argument('<name>', 'account name')
     .option('--password-stdin', 'read the password from standard input (the default)')
     .action(async (name: string) => {
-      const text = await ctx.io.readStdin();
-      const password = text.split(/\r?\n/)[0] ?? '';
-      // OWASP ASVS 4.0.3, requirement 2.1.1: at least 12 characters.
-      if ([...password].length < MIN_PASSWORD_LENGTH) {
-        throw new InputError(`Give a password of at least ${MIN_PASSWORD_LENGTH} characters on standard input, e.g. printf "%s\\n" "$PASSWORD" | themata users add NAME.`);
-      }
+      const password = await passwordFromStdin(ctx, `printf "%s\\n" "$PASSWORD" | themata users add NAME`);
       const store = ctx.openStore();
       try {
         const account = createAccount(store, name, password);
@@ -38,6 +54,21 @@ export function registerAdminCommands(program: Command, ctx: CliContext): void {
         ctx.out(`Gave ${given.studies.length} ${given.studies.length === 1 ? 'study' : 'studies'} without an owner to "${given.account.name}", the first account: ${given.studies.map((n) => `"${n}"`).join(', ')}.`);
       }
     });
+  users
+    .command('password')
+    .description("set an account's new password, read from standard input, and sign the account out everywhere")
+    .argument('<name>', 'account name')
+    .option('--password-stdin', 'read the password from standard input (the default)')
+    .action(async (name: string) => {
+      const password = await passwordFromStdin(ctx, `printf "%s\\n" "$PASSWORD" | themata users password NAME`);
+      const store = ctx.openStore();
+      const account = getAccountByName(store, name);
+      if (!account) throw new InputError(`There is no account named "${name.trim()}". Add it with themata users add NAME.`);
+      const ended = setPassword(store, account.id, password);
+      ctx.out(`Changed the password of "${account.name}"; ${ended === 1 ? '1 session was' : `${ended} sessions were`} signed out.`);
+      // OWASP ASVS 4.0.3 V2.2.3, V2.5.5: the workbench tells the account at its next sign-in.
+      ctx.out('The account will be told of this change, made by the server\'s operator, when it next signs in to the workbench.');
+    });
 
   program
     .command('serve')
@@ -45,9 +76,32 @@ export function registerAdminCommands(program: Command, ctx: CliContext): void {
     .option('--host <host>', 'address to bind', '127.0.0.1')
     .option('--port <port>', 'port (default 4180)')
     .option('--demo', 'import the demo study into an empty data folder first')
-    .action(async (flags: { host: string; port?: string; demo?: boolean }) => {
+    .option(
+      '--secure-cookies',
+      'behind a TLS proxy: send the session cookie over HTTPS only, as __Host-themata_session (overrides THEMATA_SECURE_COOKIES)',
+    )
+    .option('--no-secure-cookies', 'send the session cookie over plain HTTP too, whatever THEMATA_SECURE_COOKIES says')
+    .option(
+      '--allowed-hosts <names>',
+      'host names the server answers to besides its own, separated by commas, e.g. the name a TLS proxy passes on (overrides THEMATA_ALLOWED_HOSTS)',
+    )
+    .option('--requests-per-second <n>', 'requests a second each account (or address, when not signed in) may make; bursts of six seconds\' worth, form posts a quarter (default 20)')
+    .option('--scan-command <command>', 'virus scanner each upload is piped to before it is read, e.g. "clamdscan --no-summary --fdpass -"; exit 0 clean, 1 infected (overrides THEMATA_SCAN_COMMAND)')
+    .addHelpText(
+      'after',
+      `
+Behind a TLS proxy that forwards https://themata.lab.example.org:
+  themata serve --host 127.0.0.1 --secure-cookies --allowed-hosts themata.lab.example.org`,
+    )
+    .action(async (flags: ServeFlags) => {
       const port = flags.port === undefined ? undefined : Number(flags.port);
       if (port !== undefined && (!Number.isInteger(port) || port < 0 || port > 65535)) throw new InputError(`--port needs a port number (got "${flags.port}").`);
+      const allowedHosts = flags.allowedHosts === undefined ? undefined : flags.allowedHosts.split(',').map((x) => x.trim()).filter(Boolean);
+      const rate = flags.requestsPerSecond === undefined ? undefined : Number(flags.requestsPerSecond);
+      if (rate !== undefined && !(Number.isFinite(rate) && rate >= 1)) {
+        throw new InputError(`--requests-per-second needs a number of at least 1 (got "${flags.requestsPerSecond}").`);
+      }
+      const scanner = scannerFromSetting(flags.scanCommand, process.env);
       let server: ServerModule | undefined;
       try {
         server = (await import(new URL('../server/index.js', import.meta.url).href)) as ServerModule;
@@ -66,7 +120,17 @@ export function registerAdminCommands(program: Command, ctx: CliContext): void {
       ctx.close(); // the server opens its own store
       let running;
       try {
-        running = await server.startServer({ host: flags.host, ...(port !== undefined ? { port } : {}), dataDir: ctx.dataDir, demo: !!flags.demo });
+        // A flag wins over its environment variable; without the flag startServer reads the variable.
+        running = await server.startServer({
+          host: flags.host,
+          ...(port !== undefined ? { port } : {}),
+          dataDir: ctx.dataDir,
+          demo: !!flags.demo,
+          ...(flags.secureCookies !== undefined ? { secureCookies: flags.secureCookies } : {}),
+          ...(allowedHosts !== undefined ? { allowedHosts } : {}),
+          ...(rate !== undefined ? { requestLimits: server.requestLimitsFor(rate) } : {}),
+          ...(scanner !== undefined ? { uploadScanner: scanner } : {}),
+        });
       } catch (e) {
         const code = (e as NodeJS.ErrnoException).code;
         if ((e as Error).name === 'ServerStartError') throw new InputError((e as Error).message);
@@ -75,8 +139,23 @@ export function registerAdminCommands(program: Command, ctx: CliContext): void {
         throw e;
       }
       ctx.out(`Themata is serving at ${running.url} (data folder ${ctx.dataDir}). Press Ctrl+C to stop.`);
+      ctx.out(describeScanning(scanner));
       const stop = () => void running.close().then(() => process.exit(0));
       process.once('SIGINT', stop);
       process.once('SIGTERM', stop);
     });
+}
+
+/**
+ * The first line of standard input, checked against the password rules (OWASP ASVS 4.0.3 V2.1.1,
+ * V2.1.2, V2.1.7: 12 to 128 characters, not a common password) before anything is opened.
+ */
+async function passwordFromStdin(ctx: CliContext, example: string): Promise<string> {
+  const text = await ctx.io.readStdin();
+  const password = text.split(/\r?\n/)[0] ?? '';
+  const problem = passwordProblem(password);
+  if (problem) {
+    throw new InputError(password ? `${problem} The password is read from standard input.` : `Give the password on standard input, e.g. ${example}. ${problem}`);
+  }
+  return password;
 }

@@ -1,4 +1,4 @@
-// fit, export, apply, contrasts (issues 4 and 6).
+// fit, export, apply, contrasts (issues 4 and 6); remove-run (OWASP ASVS 4.0.3 V8.3.2).
 import { mkdir, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import type { Command } from 'commander';
@@ -6,9 +6,13 @@ import {
   applyRun,
   buildBundle,
   createFitRun,
-  decodeBundle,
+  installationKey,
+  openBundle,
+  describeRunContents,
   exportRun,
   loadRunModel,
+  planRunRemoval,
+  removeRun,
   requireStudy,
   runContrasts,
   runFitJob,
@@ -19,6 +23,8 @@ import {
 import { csvBytes, round6, toCsv } from '../services/csv.js';
 import { getRun, getRunByName, getStudy, interruptIfAbandoned, setRunProgress, setRunStatus, touchRunHeartbeat, type Run, type Store } from '../store/index.js';
 import { InputError } from '../text/types.js';
+import { scannerFromSetting, scanUpload } from '../services/scan-upload.js';
+import { reportRemoval } from './study-commands.js';
 import { collect, mappingFromFlags, mappingOptions, parseNumber, readInputFile, type CliContext, type MappingFlags } from './context.js';
 
 /** The finished run `name` of `study`, loaded; InputError when missing or unfinished. */
@@ -102,14 +108,15 @@ export async function executeRun(ctx: CliContext, run: Run, label = ''): Promise
     });
     bar.stop();
     if (outcome.stopped) {
-      setRunStatus(store, run.id, 'interrupted');
+      setRunStatus(store, run.id, 'interrupted', null, { from: ['running'] });
       throw new InputError(`Fit "${run.name}" stopped at your request; continue it with: themata resume --study "${getStudy(store, run.studyId)?.name}" --run "${run.name}".`);
     }
     // runFitJob stored the results, the final progress and status 'finished' in one transaction.
     return outcome.diagnostics!;
   } catch (error) {
     bar.stop();
-    if (getRun(store, run.id)?.status === 'running') setRunStatus(store, run.id, 'failed', error instanceof Error ? error.message : String(error));
+    // Guarded: a run that finished (or was deleted) meanwhile keeps what it is.
+    setRunStatus(store, run.id, 'failed', error instanceof Error ? error.message : String(error), { from: ['running'] });
     throw error;
   } finally {
     process.removeListener('SIGINT', onSignal);
@@ -196,20 +203,26 @@ export function registerRunCommands(program: Command, ctx: CliContext): void {
       .requiredOption('--out <file>', 'CSV file to write')
       .option('--study <name>', 'study of the run')
       .option('--run <name>', 'run to apply')
-      .option('--bundle <file>', 'a saved-run bundle (.themata-run) instead of --study/--run'),
+      .option('--bundle <file>', 'a saved-run bundle (.themata-run) instead of --study/--run')
+      .option('--trust-bundle', 'use a bundle saved by another Themata installation, or an unsigned one from an older Themata, after you have checked where it came from'),
   )
     .option('--seed <s>', 'random seed of the fold-in (default 1)')
-    .action(async (file: string, flags: MappingFlags & { out: string; study?: string; run?: string; bundle?: string; sheet?: string; seed?: string }) => {
+    .option('--scan-command <command>', 'virus scanner the file of new answers is piped to before it is read (as for import; overrides THEMATA_SCAN_COMMAND)')
+    .action(async (file: string, flags: MappingFlags & { out: string; study?: string; run?: string; bundle?: string; trustBundle?: boolean; sheet?: string; seed?: string; scanCommand?: string }) => {
       let bundle;
       if (flags.bundle) {
         const b = await readInputFile(flags.bundle);
-        bundle = decodeBundle(b.bytes, b.fileName);
+        // Signed bundles of this data folder are accepted; others only with --trust-bundle (bundle.ts).
+        const opened = openBundle(b.bytes, { fileName: b.fileName, key: installationKey(ctx.dataDir), trust: !!flags.trustBundle });
+        if (opened.origin !== 'this installation') ctx.err(`Using ${b.fileName}, ${opened.origin === 'unsigned (trusted)' ? 'an unsigned bundle' : 'a bundle of another Themata installation'}, because --trust-bundle was given.`);
+        bundle = opened.bundle;
       } else {
         if (!flags.study || !flags.run) throw new InputError('Say which run to apply: --study NAME --run RUN, or --bundle FILE.themata-run.');
         const store = ctx.openStore();
         bundle = buildBundle(store, requireRunModel(store, flags.study, flags.run));
       }
       const input = await readInputFile(file);
+      await scanUpload(scannerFromSetting(flags.scanCommand, process.env), input.bytes, input.fileName);
       const { file: out, summary } = await applyRun(bundle, {
         bytes: input.bytes,
         fileName: input.fileName,
@@ -248,5 +261,27 @@ export function registerRunCommands(program: Command, ctx: CliContext): void {
       for (const note of res.notes) ctx.err(note);
       const found = res.differences.filter((d) => d.discovery);
       ctx.err(`${found.length} of ${res.differences.length} level differences stand out after false-discovery control (Benjamini & Hochberg, 5%). Differences are associations in this sample, not causes.`);
+    });
+
+  program
+    .command('remove-run')
+    .description('delete a run with its checkpoints, results, theme labels and exported files (without --yes: only say what would go)')
+    .requiredOption('--study <name>', 'study name')
+    .requiredOption('--run <name>', 'run name')
+    .option('--yes', 'really delete')
+    .option('--vacuum', 'afterwards rewrite the data file so no free page keeps deleted bytes')
+    .action(async (flags: { study: string; run: string; yes?: boolean; vacuum?: boolean }) => {
+      const store = ctx.openStore();
+      const s = requireStudy(store, flags.study);
+      const run = getRunByName(store, s.id, flags.run);
+      if (!run) throw new InputError(`Study "${s.name}" has no run called "${flags.run}".`);
+      const plan = planRunRemoval(store, run.id);
+      if (plan.refusal) throw new InputError(plan.refusal);
+      if (!flags.yes) {
+        ctx.out(`Would delete run "${run.name}" (${run.status}) of study "${s.name}": ${describeRunContents(plan.contents)}.`);
+        ctx.out('Nothing was deleted. Add --yes to delete.');
+        return;
+      }
+      reportRemoval(ctx, store, await removeRun(store, run.id), flags.vacuum);
     });
 }

@@ -1,9 +1,10 @@
-// import, languages, vocabulary (issue 2 item 6).
+// import, languages, vocabulary (issue 2 item 6); remove-study and remove-import (OWASP ASVS 4.0.3 V8.3.2).
 import { writeFile } from 'node:fs/promises';
 import type { Command } from 'commander';
-import { importFile, requireStudy, type ImportSummary } from '../services/index.js';
+import { describeStudyContents, formatBytes, importFile, planImportRemoval, planStudyRemoval, removeImport, removeStudy, requireStudy, type ImportSummary, type RemovalOutcome } from '../services/index.js';
 import { csvBytes, toCsv } from '../services/csv.js';
-import { iterateDocuments, topWords, vocabularySizes } from '../store/index.js';
+import { scannerFromSetting, scanUpload } from '../services/scan-upload.js';
+import { iterateDocuments, listImports, topWords, vacuumStore, vocabularySizes, type Store } from '../store/index.js';
 import { normalizeLanguageTag } from '../text/language-tags.js';
 import { InputError } from '../text/types.js';
 import { formatCounts, mappingFromFlags, mappingOptions, parseNumber, readInputFile, type CliContext, type MappingFlags } from './context.js';
@@ -21,6 +22,29 @@ export function describeImport(s: ImportSummary): string[] {
   return lines;
 }
 
+/** After a deletion: say what went; with --vacuum rewrite the data file so no free page keeps old bytes. */
+export function reportRemoval(ctx: CliContext, store: Store, outcome: RemovalOutcome, vacuum: boolean | undefined): void {
+  ctx.out(outcome.message);
+  if (vacuum) {
+    vacuumStore(store);
+    ctx.out('The data file was rewritten (VACUUM): no free page holds deleted data.');
+  } else if (!outcome.walTruncated) {
+    ctx.err('Another program had the data file open; its journal keeps old pages until its next checkpoint.');
+  }
+}
+
+/** An import of the study by id or file name; InputError listing the study's files otherwise. */
+function requireImport(store: Store, studyId: number, studyName: string, which: string): number {
+  const imports = listImports(store, studyId);
+  const byId = /^\d+$/.test(which) ? imports.find((i) => i.id === Number(which)) : undefined;
+  const byName = imports.filter((i) => i.fileName === which);
+  if (byId) return byId.id;
+  if (byName.length === 1) return byName[0].id;
+  const list = imports.map((i) => `${i.id} ${i.fileName} (${i.documents} answers)`).join('; ') || 'none';
+  if (byName.length > 1) throw new InputError(`Study "${studyName}" has ${byName.length} files called "${which}"; name one by its number: ${list}.`);
+  throw new InputError(`Study "${studyName}" has no imported file "${which}". Its files (number, name): ${list}.`);
+}
+
 export function registerStudyCommands(program: Command, ctx: CliContext): void {
   mappingOptions(
     program
@@ -31,9 +55,12 @@ export function registerStudyCommands(program: Command, ctx: CliContext): void {
   )
     .option('--languages <list>', 'the study\'s languages, comma-separated (e.g. en,es,fr)')
     .option('--json', 'print the summary as one JSON line')
-    .action(async (file: string, flags: MappingFlags & { study: string; languages?: string; sheet?: string; json?: boolean }) => {
+    .option('--scan-command <command>', 'virus scanner the file is piped to before it is read, e.g. "clamscan --no-summary -"; exit 0 clean, 1 infected (overrides THEMATA_SCAN_COMMAND)')
+    .action(async (file: string, flags: MappingFlags & { study: string; languages?: string; sheet?: string; json?: boolean; scanCommand?: string }) => {
       if (flags.text.length === 0) throw new InputError('Say which column holds the answers: --text COL (repeat for several questions).', file);
       const input = await readInputFile(file);
+      // Scanned before anything reads or stores the bytes (OWASP ASVS 4.0.3 V12.4.2).
+      await scanUpload(scannerFromSetting(flags.scanCommand, process.env), input.bytes, input.fileName);
       const store = ctx.openStore();
       const bar = ctx.progressBar('{phase} |{bar}| {value}/{total}');
       let phase = '';
@@ -92,5 +119,45 @@ export function registerStudyCommands(program: Command, ctx: CliContext): void {
       ctx.out(`${lang}: ${mine.words} words, ${mine.tokens} tokens.`);
       ctx.out(['rank', 'word', 'stem', 'count', 'answers'].join('\t'));
       topWords(store, study.id, lang, { limit: top }).forEach((w, i) => ctx.out([i + 1, w.surface, w.stem, w.count, w.docCount].join('\t')));
+    });
+
+  program
+    .command('remove-study')
+    .description('delete a study with its files, answers, vocabulary, runs, results and memberships (without --yes: only say what would go)')
+    .requiredOption('--study <name>', 'study name')
+    .option('--yes', 'really delete')
+    .option('--vacuum', 'afterwards rewrite the data file so no free page keeps deleted bytes')
+    .action(async (flags: { study: string; yes?: boolean; vacuum?: boolean }) => {
+      const store = ctx.openStore();
+      const study = requireStudy(store, flags.study);
+      const plan = planStudyRemoval(store, study.id);
+      if (plan.refusal) throw new InputError(plan.refusal);
+      if (!flags.yes) {
+        ctx.out(`Would delete study "${study.name}": ${describeStudyContents(plan.contents)}.`);
+        if (plan.stopping.length) ctx.out(`Queued runs cancelled with it: ${plan.stopping.join(', ')}.`);
+        ctx.out('Nothing was deleted. Add --yes to delete.');
+        return;
+      }
+      reportRemoval(ctx, store, await removeStudy(store, study.id), flags.vacuum);
+    });
+
+  program
+    .command('remove-import')
+    .description('delete one imported file and its answers from a study, refused while a run was fitted on them (without --yes: only say what would go)')
+    .requiredOption('--study <name>', 'study name')
+    .requiredOption('--import <file>', 'file name as imported, or its number')
+    .option('--yes', 'really delete')
+    .option('--vacuum', 'afterwards rewrite the data file so no free page keeps deleted bytes')
+    .action(async (flags: { study: string; import: string; yes?: boolean; vacuum?: boolean }) => {
+      const store = ctx.openStore();
+      const study = requireStudy(store, flags.study);
+      const plan = planImportRemoval(store, requireImport(store, study.id, study.name, flags.import));
+      if (plan.refusal) throw new InputError(plan.refusal);
+      if (!flags.yes) {
+        ctx.out(`Would delete ${plan.record.fileName} (number ${plan.record.id}) from study "${study.name}": the original file (${formatBytes(plan.record.size)}) and ${plan.record.documents} answers; the vocabulary is rebuilt without them.`);
+        ctx.out('Nothing was deleted. Add --yes to delete.');
+        return;
+      }
+      reportRemoval(ctx, store, await removeImport(store, plan.record.id), flags.vacuum);
     });
 }

@@ -1,18 +1,24 @@
 // The run queue. Runs are persisted in the runs table (status 'queued' is the queue itself), so
 // a restart loses nothing: runs left 'running' by a stopped process become 'interrupted' and can
-// be resumed from their last checkpoint. At most `concurrency` fits run at once, each in its own
+// be resumed from their last checkpoint (a run a live `themata fit` process is fitting is left
+// alone). At most `concurrency` fits run at once, each in its own
 // worker thread so the server keeps answering while a fit computes (DESIGN §9).
+// Each account may have at most `fitsPerAccount` fits queued or running (OWASP ASVS 4.0.3 V11.1.3
+// "per-user limits"); who queued a run is kept in memory, so runs queued before a restart count
+// for no one, and the single local user of a loopback server without accounts has no such limit.
 import type { Worker } from 'node:worker_threads';
 import {
   getRun,
+  interruptAbandonedRuns,
   listRunsByStatus,
-  markRunningAsInterrupted,
+  processIsAlive,
   setRunProgress,
   setRunStatus,
   type RunProgress,
   type RunStatus,
   type Store,
 } from '../store/index.js';
+import { InputError } from '../text/types.js';
 import type { FromWorker } from './messages.js';
 import { startTypeScriptWorker } from './worker-launch.js';
 
@@ -34,7 +40,12 @@ export interface JobQueueOptions {
   cancelGraceMs?: number;
   /** Minimum interval between progress writes to the database. */
   progressWriteMs?: number;
+  /** Fits one account may have queued or running at once (default 3, common practice). */
+  fitsPerAccount?: number;
 }
+
+/** Who asks for a fit: an account id, or null for the single local user (no limit). */
+export type FitRequester = number | null;
 
 interface Active {
   worker: Worker;
@@ -59,6 +70,11 @@ export class JobQueue {
   private readonly listeners = new Map<number, Set<JobListener>>();
   private readonly anyListeners = new Set<JobListener>();
   private readonly idleWaiters: (() => void)[] = [];
+  /** Account that queued each run still queued or running here. */
+  private readonly requesters = new Map<number, number>();
+  readonly fitsPerAccount: number;
+  /** Runs being deleted: never launched, whatever their status says. */
+  private readonly held = new Set<number>();
   private closed = false;
 
   constructor(options: JobQueueOptions) {
@@ -68,29 +84,62 @@ export class JobQueue {
     this.workerOptions = options.workerOptions ?? {};
     this.cancelGraceMs = options.cancelGraceMs ?? 15_000;
     this.progressWriteMs = options.progressWriteMs ?? 500;
+    this.fitsPerAccount = Math.max(1, Math.floor(options.fitsPerAccount ?? 3));
   }
 
-  /** Recover after a restart (running → interrupted) and start queued runs. Returns runs interrupted. */
+  /** Fits this account has queued or running now. */
+  fitsOf(account: number): number {
+    let n = 0;
+    for (const [runId, owner] of this.requesters) {
+      if (owner !== account) continue;
+      if (this.active.has(runId) || getRun(this.store, runId)?.status === 'queued') n++;
+      else this.requesters.delete(runId); // settled elsewhere (e.g. cancelled while queued by another process)
+    }
+    return n;
+  }
+
+  /** Throws an InputError when this account may not start another fit now. Call it before creating the run. */
+  checkFitLimit(requester: FitRequester): void {
+    if (requester === null) return;
+    const n = this.fitsOf(requester);
+    if (n >= this.fitsPerAccount) {
+      throw new InputError(
+        `You have ${n} fits queued or running, the most one account may have at once (${this.fitsPerAccount}). ` +
+          'Wait for one to finish, or cancel one on its run page, then start this one.',
+      );
+    }
+  }
+
+  /**
+   * Recover after a restart and start queued runs. A run left 'running' becomes 'interrupted' only
+   * when its process has ended or its heartbeat is stale (store's abandonedReason): a fit a live
+   * `themata fit` runs in another process goes on. A fresh queue runs nothing yet, so a run that
+   * names this very process as its owner is left over too. Returns the number of runs interrupted.
+   */
   start(): number {
-    const interrupted = markRunningAsInterrupted(this.store);
+    const interrupted = interruptAbandonedRuns(this.store, { isAlive: (pid) => pid !== process.pid && processIsAlive(pid) });
     this.schedule();
-    return interrupted;
+    return interrupted.length;
   }
 
-  /** Queue a run that exists in the store (status set to 'queued'). */
-  enqueue(runId: number): void {
+  /** Queue a run that exists in the store (status set to 'queued'), on behalf of an account when given. */
+  enqueue(runId: number, requester: FitRequester = null): void {
     const run = getRun(this.store, runId);
     if (!run) throw new Error(`No run with id ${runId}.`);
+    if (requester !== null && this.requesters.get(runId) !== requester) {
+      this.checkFitLimit(requester);
+      this.requesters.set(runId, requester);
+    }
     if (run.status !== 'queued') setRunStatus(this.store, runId, 'queued');
     this.emit({ runId, kind: 'status', status: 'queued', error: null });
     this.schedule();
   }
 
   /** Resume an interrupted, cancelled or failed run from its last checkpoint (the worker decides). */
-  resume(runId: number): boolean {
+  resume(runId: number, requester: FitRequester = null): boolean {
     const run = getRun(this.store, runId);
     if (!run || !['interrupted', 'cancelled', 'failed'].includes(run.status)) return false;
-    this.enqueue(runId);
+    this.enqueue(runId, requester);
     return true;
   }
 
@@ -106,13 +155,38 @@ export class JobQueue {
       }
       return true;
     }
-    const run = getRun(this.store, runId);
-    if (run?.status === 'queued') {
-      setRunStatus(this.store, runId, 'cancelled');
+    if (setRunStatus(this.store, runId, 'cancelled', null, { from: ['queued'] })) {
       this.emit({ runId, kind: 'status', status: 'cancelled', error: null });
       return true;
     }
     return false;
+  }
+
+  /**
+   * Before runs are deleted: keep them from being launched, and stop the worker of any that is
+   * running here at once (its results are about to go, so there is nothing to wait for). Call
+   * `unhold` afterwards, whether the deletion happened or not.
+   */
+  async release(runIds: readonly number[]): Promise<void> {
+    for (const id of runIds) this.held.add(id);
+    await Promise.all(
+      runIds.map(async (runId) => {
+        const a = this.active.get(runId);
+        if (!a) return;
+        a.settled = true;
+        if (a.killTimer) clearTimeout(a.killTimer);
+        this.active.delete(runId);
+        await a.worker.terminate();
+        setRunStatus(this.store, runId, 'cancelled', null, { from: ['running'] });
+        this.emit({ runId, kind: 'status', status: 'cancelled', error: null });
+      }),
+    );
+  }
+
+  /** Runs of `release` may be launched again (a deletion that did not happen); starts queued runs. */
+  unhold(runIds: readonly number[]): void {
+    for (const id of runIds) this.held.delete(id);
+    this.schedule();
   }
 
   isActive(runId: number): boolean {
@@ -153,7 +227,7 @@ export class JobQueue {
       a.settled = true;
       if (a.killTimer) clearTimeout(a.killTimer);
       await a.worker.terminate();
-      setRunStatus(this.store, runId, 'interrupted');
+      setRunStatus(this.store, runId, 'interrupted', null, { from: ['running'] });
     });
     await Promise.all(stopping);
     this.active.clear();
@@ -169,10 +243,10 @@ export class JobQueue {
     if (this.active.size < this.concurrency) {
       for (const run of listRunsByStatus(this.store, ['queued'])) {
         if (this.active.size >= this.concurrency) break;
-        if (!this.active.has(run.id)) this.launch(run.id);
+        if (!this.active.has(run.id) && !this.held.has(run.id)) this.launch(run.id);
       }
     }
-    if (this.active.size === 0 && listRunsByStatus(this.store, ['queued']).length === 0) {
+    if (this.active.size === 0 && listRunsByStatus(this.store, ['queued']).every((r) => this.held.has(r.id))) {
       for (const resolve of this.idleWaiters.splice(0)) resolve();
     }
   }
@@ -236,15 +310,22 @@ export class JobQueue {
     }
   }
 
+  /**
+   * The worker is done. The status changes only while the run is still 'running': the fit marks
+   * its run 'finished' together with its results, so a cancel or a kill that lands in the short
+   * summary window afterwards leaves it finished, and the event tells what the run really is.
+   */
   private settle(runId: number, a: Active, status: RunStatus, error: string | null): void {
     if (a.settled) return;
     a.settled = true;
     if (a.killTimer) clearTimeout(a.killTimer);
-    this.writeProgress(runId, a);
-    setRunStatus(this.store, runId, status, error);
+    const current = getRun(this.store, runId);
+    if (current?.status === 'running') this.writeProgress(runId, a);
+    setRunStatus(this.store, runId, status, error, { from: ['running'] });
+    const after = getRun(this.store, runId);
     this.active.delete(runId);
     void a.worker.terminate();
-    this.emit({ runId, kind: 'status', status, error });
+    if (after) this.emit({ runId, kind: 'status', status: after.status, error: after.error });
     this.schedule();
   }
 }

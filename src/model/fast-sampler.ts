@@ -25,6 +25,15 @@ class FastSampler implements Sampler {
   setPriors(priors: Priors): void {
     this.state.setPriors(priors);
     this.groupPattern = priors.groupPattern;
+    this.scratch.groupLogLik = NaN;
+  }
+
+  trackGroupLogLikelihood(): void {
+    this.scratch.trackGroupLogLik = true;
+  }
+
+  lastGroupLogLikelihood(): number {
+    return this.scratch.groupLogLik;
   }
 
   wordTopicCounts(): Int32Array {

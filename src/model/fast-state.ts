@@ -37,6 +37,8 @@ export class FastState {
   /** V_ℓ β_ℓ per language. */
   readonly vb: Float64Array;
   alpha: Float64Array;
+  /** Σ_k α_pk per covariate pattern p. */
+  alphaSum: Float64Array;
   beta: Float64Array;
   /** Dense n_kw, rebuilt from the lists on demand (null when this copy never needs it). */
   private dense: Int32Array | null;
@@ -91,6 +93,7 @@ export class FastState {
     this.vb = new Float64Array(L);
     this.inv = new Float64Array(L * K);
     this.alpha = priors.alpha;
+    this.alphaSum = new Float64Array(priors.alpha.length / K);
     this.beta = priors.beta;
     this.setPriors(priors);
   }
@@ -101,6 +104,13 @@ export class FastState {
     this.alpha = priors.alpha;
     this.beta = priors.beta;
     const { K, L, nk, inv, vb } = this;
+    const P = priors.alpha.length / K;
+    if (this.alphaSum.length !== P) this.alphaSum = new Float64Array(P);
+    for (let p = 0; p < P; p++) {
+      let a = 0;
+      for (let k = 0; k < K; k++) a += priors.alpha[p * K + k];
+      this.alphaSum[p] = a;
+    }
     for (let l = 0; l < L; l++) {
       vb[l] = this.corpus.vocabSizes[l] * priors.beta[l];
       for (let k = 0; k < K; k++) inv[l * K + k] = 1 / (nk[l * K + k] + vb[l]);

@@ -20,6 +20,7 @@
 // updated for the two topics a token moves between), so each non-zero topic costs two loads.
 import type { Rng } from './types.js';
 import type { FastState } from './fast-state.js';
+import { logRising } from './log-likelihood.js';
 
 /** Scratch arrays of length K, allocated once per sampler (never inside the loop). */
 export interface FastScratch {
@@ -29,10 +30,32 @@ export interface FastScratch {
   qCum: Float64Array;
   /** (n_gk + α_pk) / (n_k^ℓ + V_ℓ β_ℓ) for the current document (SparseLDA's cached coefficient). */
   coef: Float64Array;
+  /**
+   * When true, sweepGroups sums Σ_g log p(z_g | α_p(g)) over its groups into groupLogLik, under
+   * the priors it sampled with (the group part of the joint likelihood, log-likelihood.ts), while
+   * each group's counts n_gk are at hand: the fit's likelihood trace then needs no pass over z,
+   * and on several threads the sum is split like the sweep. Off by default (it costs logarithms).
+   */
+  trackGroupLogLik: boolean;
+  groupLogLik: number;
 }
 
 export function createScratch(K: number): FastScratch {
-  return { ngk: new Int32Array(K), gList: new Uint16Array(K), gPos: new Int32Array(K), qCum: new Float64Array(K), coef: new Float64Array(K) };
+  return { ngk: new Int32Array(K), gList: new Uint16Array(K), gPos: new Int32Array(K), qCum: new Float64Array(K), coef: new Float64Array(K), trackGroupLogLik: false, groupLogLik: 0 };
+}
+
+/**
+ * The group part of the joint likelihood for one group (Dirichlet-multinomial of its topic
+ * counts: log-likelihood.ts), then clears the group's counts. Kept out of the sweep's body.
+ */
+function groupTermAndReset(ngk: Int32Array, gList: Uint16Array, gn: number, alpha: Float64Array, aOff: number, alphaSum: number, n: number): number {
+  let sg = -logRising(alphaSum, n);
+  for (let j = 0; j < gn; j++) {
+    const k = gList[j];
+    sg += logRising(alpha[aOff + k], ngk[k]);
+    ngk[k] = 0;
+  }
+  return sg;
 }
 
 /**
@@ -49,7 +72,7 @@ export function sweepGroups(
   rng: Rng,
   log: Int32Array | null,
 ): number {
-  const { K, nk, inv, vb, wlStart, wlLen, wlTopics, wlCounts, alpha, beta } = st;
+  const { K, nk, inv, vb, wlStart, wlLen, wlTopics, wlCounts, alpha, alphaSum, beta } = st;
   const { words, docOffsets, docLanguage, groupDocOffsets, wordBase } = st.corpus;
   const { ngk, gList, gPos, qCum, coef } = scratch;
   let logPos = 0;
@@ -58,6 +81,8 @@ export function sweepGroups(
   let r = 0;
   let q = 0;
   let u = 0;
+  let groupLogLik = 0;
+  const track = scratch.trackGroupLogLik;
   for (let g = g0; g < g1; g++) {
     const d0 = groupDocOffsets[g];
     const d1 = groupDocOffsets[g + 1];
@@ -218,8 +243,10 @@ export function sweepGroups(
         }
       }
     }
-    for (let j = 0; j < gn; j++) ngk[gList[j]] = 0;
+    if (track) groupLogLik += groupTermAndReset(ngk, gList, gn, alpha, aOff, alphaSum[groupPattern[g]], t1 - t0);
+    else for (let j = 0; j < gn; j++) ngk[gList[j]] = 0;
   }
+  scratch.groupLogLik = track ? groupLogLik : NaN;
   if (g1 > g0) st.touched();
   return logPos;
 }

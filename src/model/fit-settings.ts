@@ -19,7 +19,7 @@ export interface FitSettings {
   keepThetaSamples: number;
   /** …and at most this many Float32 cells in total across them (memory bound). */
   maxThetaSampleCells: number;
-  /** Emit a checkpoint every this many sweeps (0 = only when stopping). */
+  /** Emit a checkpoint every this many sweeps (0 = only when stopping), skipping one while the last cost over 5% of the time since (fit.ts). */
   checkpointEvery: number;
   samplerFactory: SamplerFactory;
   priorVariance: PriorVariance;

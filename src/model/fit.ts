@@ -12,11 +12,16 @@ import { alphaFromLambda, type GroupFeatures, interceptOnlyFeatures } from './fe
 import { type FitHooks, type FitResult, type FitSettings, resolveFitSettings } from './fit-settings.js';
 import { reestimateHyperparameters } from './hyperparameters.js';
 import { initialAssignments } from './initialize.js';
-import { logJointLikelihood } from './log-likelihood.js';
+import { logJointLikelihood, wordLogLikelihood } from './log-likelihood.js';
 import { randomAssignments } from './reference-sampler.js';
 import { Xoshiro128 } from './rng.js';
 import { searchStart } from './start-search.js';
 import type { Corpus, Priors } from './types.js';
+
+/** Periodic checkpoints take at most about 1/(1 + CHECKPOINT_SHARE) of a fit's time (common practice: 5%). */
+const CHECKPOINT_SHARE = 19;
+/** Checkpoints faster than this keep the fixed cadence of checkpointEvery. */
+const SLOW_CHECKPOINT_MS = 1000;
 
 export { DEFAULT_FIT_SETTINGS } from './fit-settings.js';
 export type { FitHooks, FitResult, FitSettings, SweepProgress } from './fit-settings.js';
@@ -55,7 +60,9 @@ export async function fitModel(
   const cp = hooks.resumeFrom;
   if (cp) {
     if (cp.version !== CHECKPOINT_VERSION) throw new Error(`Checkpoint version ${cp.version} cannot be resumed by this version.`);
-    if (cp.K !== K || cp.z.length !== N || cp.numFeatures !== F || cp.beta.length !== L || cp.thetaSum.length !== G * K) {
+    // Before the first saved sample the sums are all zero and a checkpoint leaves them out.
+    const sumsSaved = cp.numSamples > 0 || cp.thetaSum.length > 0;
+    if (cp.K !== K || cp.z.length !== N || cp.numFeatures !== F || cp.beta.length !== L || (sumsSaved && (cp.thetaSum.length !== G * K || cp.phiSum.length !== rows * K))) {
       throw new Error('This checkpoint belongs to a different corpus or settings (themes, tokens or covariates differ); start a new run.');
     }
     rng = Xoshiro128.fromState(cp.rngState);
@@ -63,8 +70,8 @@ export async function fitModel(
     lambda = cp.lambda.slice();
     beta = cp.beta.slice();
     trace = [...cp.logLikelihoodTrace];
-    phiSum = cp.phiSum.slice();
-    thetaSum = cp.thetaSum.slice();
+    phiSum = sumsSaved ? cp.phiSum.slice() : new Float64Array(rows * K);
+    thetaSum = sumsSaved ? cp.thetaSum.slice() : new Float64Array(G * K);
     numSamples = cp.numSamples;
     thetaSamples = cp.thetaSamples.map((a) => a.slice());
     thetaSampleSweeps = [...cp.thetaSampleSweeps];
@@ -121,9 +128,14 @@ export async function fitModel(
 
   let priors: Priors = { K, groupPattern: feats.groupPattern, alpha: alphaFromLambda(lambda, feats.patterns, K, F), beta };
   const sampler = s.samplerFactory(corpus, z, priors);
+  sampler.trackGroupLogLikelihood?.();
   const began = performance.now();
   let sweep = start;
   let stopped = false;
+  let lastCheckpointEnd = began;
+  let lastCheckpointMs = 0;
+  // The checkpoint's arrays are views of the live state (a checkpoint of a million answers holds
+  // G×K sums of hundreds of MB): onCheckpoint must encode or copy them before it returns.
   const snapshot = (): Checkpoint => ({
     version: CHECKPOINT_VERSION,
     K,
@@ -134,10 +146,10 @@ export async function fitModel(
     numFeatures: F,
     beta: beta.slice(),
     logLikelihoodTrace: Float64Array.from(trace),
-    phiSum: phiSum.slice(),
-    thetaSum: thetaSum.slice(),
+    phiSum: numSamples > 0 ? phiSum : new Float64Array(0),
+    thetaSum: numSamples > 0 ? thetaSum : new Float64Array(0),
     numSamples,
-    thetaSamples: thetaSamples.map((a) => a.slice()),
+    thetaSamples: [...thetaSamples],
     thetaSampleSweeps: [...thetaSampleSweeps],
     optimizations,
   });
@@ -153,7 +165,12 @@ export async function fitModel(
       }
       const nkw = sampler.wordTopicCounts();
       const nk = sampler.topicTotals();
-      const ll = logJointLikelihood(corpus, sampler.z, K, priors, { nkw, nk }) / Math.max(1, N);
+      // The group part comes from the sweep when the sampler sums it (NaN after new priors).
+      const groupPart = sampler.lastGroupLogLikelihood?.() ?? NaN;
+      const joint = Number.isFinite(groupPart)
+        ? wordLogLikelihood(corpus, K, priors.beta, nkw, nk) + groupPart
+        : logJointLikelihood(corpus, sampler.z, K, priors, { nkw, nk });
+      const ll = joint / Math.max(1, N);
       trace.push(ll);
       if (sweep > s.burnIn && (sweep - s.burnIn) % s.sampleEvery === 0) {
         accumulatePhi(corpus, K, beta, nkw, nk, phiSum);
@@ -179,7 +196,18 @@ export async function fitModel(
         eta: done > 0 ? (seconds / done) * (s.sweeps - sweep) : 0,
       });
       stopped = sweep < s.sweeps && (hooks.shouldStop?.() ?? false);
-      if (hooks.onCheckpoint && ((s.checkpointEvery > 0 && sweep % s.checkpointEvery === 0) || stopped)) await hooks.onCheckpoint(snapshot());
+      // A periodic checkpoint that took over a second (large studies: hundreds of MB) delays the
+      // next until the sampling since it is CHECKPOINT_SHARE times longer; stopping always saves.
+      const due =
+        s.checkpointEvery > 0 &&
+        sweep % s.checkpointEvery === 0 &&
+        (lastCheckpointMs < SLOW_CHECKPOINT_MS || performance.now() - lastCheckpointEnd >= CHECKPOINT_SHARE * lastCheckpointMs);
+      if (hooks.onCheckpoint && (due || stopped)) {
+        const t = performance.now();
+        await hooks.onCheckpoint(snapshot());
+        lastCheckpointEnd = performance.now();
+        lastCheckpointMs = lastCheckpointEnd - t;
+      }
       if (stopped) break;
       // Let the event loop deliver messages (cancel requests) between sweeps.
       await new Promise<void>((r) => setImmediate(r));

@@ -71,6 +71,14 @@ export interface Sampler {
   topicTotals(): Int32Array;
   /** Release workers or buffers (parallel samplers). */
   dispose?(): void | Promise<void>;
+  /**
+   * Optional: from now on, sum the group part of the joint likelihood, Σ_g log p(z_g | α_p(g)),
+   * while sweeping (log-likelihood.ts, groupLogLikelihood), so a caller that traces the
+   * likelihood after every sweep need not pass over z again.
+   */
+  trackGroupLogLikelihood?(): void;
+  /** That sum for the state after the last sweep; NaN before a tracked sweep or after setPriors. */
+  lastGroupLogLikelihood?(): number;
 }
 
 export type SamplerFactory = (corpus: Corpus, z: Uint16Array, priors: Priors) => Sampler;

@@ -3,6 +3,7 @@
 import type { Context } from 'hono';
 import { HTTPException } from 'hono/http-exception';
 import { getRun, getStudy, studyRole, type Run, type Study } from '../store/index.js';
+import { takePasswordNoticeFor } from './auth.js';
 import type { AppEnv } from './types.js';
 
 export type Need = 'read' | 'write';
@@ -50,5 +51,6 @@ export function frame(c: Context<AppEnv>, title: string, extra: { study?: Study;
     study: extra.study ? { id: extra.study.id, name: extra.study.name } : undefined,
     run: extra.run ? { id: extra.run.id, name: extra.run.name, status: extra.run.status } : undefined,
     active: extra.active,
+    passwordNotice: takePasswordNoticeFor(c),
   };
 }

@@ -1,5 +1,5 @@
 // The composition root of the workbench: security and no-store headers, the Host check, static
-// assets, sign-in, session and CSRF checks, then the pages. Routes are thin: parse → call store/services → render a view.
+// assets, sign-in, session, request rate and CSRF checks, then the pages. Routes are thin: parse → call store/services → render a view.
 import { Hono } from 'hono';
 import { bodyLimit } from 'hono/body-limit';
 import { HTTPException } from 'hono/http-exception';
@@ -11,6 +11,7 @@ import { renderPage } from './render.js';
 import { dataRoutes } from './routes/data.js';
 import { languageRoutes } from './routes/languages.js';
 import { loginRoutes } from './routes/login.js';
+import { accountRoutes } from './routes/account.js';
 import { resultRoutes } from './routes/results.js';
 import { runRoutes } from './routes/runs.js';
 import { studyRoutes } from './routes/studies.js';
@@ -18,15 +19,19 @@ import { vocabularyRoutes } from './routes/vocabulary.js';
 import { exportRoutes } from './routes/export.js';
 import { RunDataCache } from './results/run-data.js';
 import { hostGuard } from './hosts.js';
-import { noStore, securityHeaders } from './security.js';
-import { SignInThrottle } from './throttle.js';
+import { describeUnexpectedError, noStore, securityHeaders } from './security.js';
+import { RequestRateLimiter, requestRateLimit, SignInThrottle } from './throttle.js';
 import type { AppDeps, AppEnv } from './types.js';
 
 export const DEFAULT_UPLOAD_LIMIT = 100 * 1024 * 1024;
 
 export function createApp(given: AppDeps): Hono<AppEnv> {
   const app = new Hono<AppEnv>();
-  const deps: AppDeps = { ...given, signInThrottle: given.signInThrottle ?? new SignInThrottle() };
+  const deps: AppDeps = {
+    ...given,
+    signInThrottle: given.signInThrottle ?? new SignInThrottle(),
+    requestLimiter: given.requestLimiter ?? new RequestRateLimiter(),
+  };
   const limit = deps.uploadLimitBytes ?? DEFAULT_UPLOAD_LIMIT;
   app.use('*', securityHeaders());
   app.use('*', noStore());
@@ -44,8 +49,10 @@ export function createApp(given: AppDeps): Hono<AppEnv> {
   );
   app.route('/assets', assetRoutes());
   app.use('*', sessionMiddleware());
+  app.use('*', requestRateLimit());
   app.use('*', csrfMiddleware());
   app.route('/', loginRoutes());
+  app.route('/', accountRoutes());
   app.route('/', studyRoutes());
   app.route('/', dataRoutes());
   app.route('/', languageRoutes());
@@ -75,7 +82,7 @@ export function createApp(given: AppDeps): Hono<AppEnv> {
     if (error instanceof InputError) {
       return renderPage(c, <ErrorPage status={400} message={error.message} />, 400);
     }
-    console.error(error);
+    console.error(describeUnexpectedError(error));
     return renderPage(c, <ErrorPage status={500} message="Themata hit an unexpected problem. Nothing you uploaded was lost; try again, and if it keeps happening, report the steps that led here." />, 500);
   });
   return app;

@@ -12,6 +12,7 @@ const FILES: Record<string, { load: () => Buffer; type: string }> = {
   'htmx.min.js': { load: () => readFileSync(require.resolve('htmx.org/dist/htmx.min.js')), type: 'text/javascript; charset=utf-8' },
   'htmx-sse.js': { load: () => readFileSync(require.resolve('htmx-ext-sse/dist/sse.js')), type: 'text/javascript; charset=utf-8' },
   'app.js': { load: () => readFileSync(new URL('app.js', publicDir)), type: 'text/javascript; charset=utf-8' },
+  'password-meter.js': { load: () => readFileSync(new URL('password-meter.js', publicDir)), type: 'text/javascript; charset=utf-8' },
   'app.css': { load: () => readFileSync(new URL('app.css', publicDir)), type: 'text/css; charset=utf-8' },
 };
 

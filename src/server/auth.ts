@@ -7,7 +7,7 @@
 import { timingSafeEqual } from 'node:crypto';
 import type { Context, MiddlewareHandler } from 'hono';
 import { deleteCookie, getCookie } from 'hono/cookie';
-import { countAccounts, getSession } from '../store/index.js';
+import { countAccounts, getSession, takePasswordNotice, type PasswordNotice } from '../store/index.js';
 import type { AppDeps, AppEnv } from './types.js';
 
 export const SESSION_COOKIE = 'themata_session';
@@ -55,6 +55,18 @@ export function sessionMiddleware(): MiddlewareHandler<AppEnv> {
     c.set('csrf', session.csrf);
     return next();
   };
+}
+
+/**
+ * The password change this session has not been told of, taken (marked as told) so that it is
+ * shown once, on the page being built (OWASP ASVS 4.0.3 V2.2.3, V2.5.5). Full pages only: frame()
+ * calls it, fragments and downloads do not.
+ */
+export function takePasswordNoticeFor(c: Context<AppEnv>): PasswordNotice | undefined {
+  if (c.get('user').local) return undefined;
+  const deps = c.get('deps');
+  const token = getCookie(c, sessionCookieName(deps));
+  return token ? takePasswordNotice(deps.store, token) : undefined;
 }
 
 function refuse(c: Context<AppEnv>): Response {

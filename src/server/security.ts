@@ -35,3 +35,25 @@ export function noStore(): MiddlewareHandler {
     if (!c.res.headers.has('Cache-Control')) c.res.headers.set('Cache-Control', 'no-store');
   };
 }
+
+/**
+ * What the server writes to its console about an unexpected error: its kind, code and the code
+ * lines it passed through, never its message, which may quote an answer (a JSON or SQL error
+ * quotes the text it choked on). Nothing else is logged: no requests, passwords or session tokens
+ * (OWASP ASVS 4.0.3 V7.1.1, V7.1.2). With `THEMATA_DEBUG` set, as for the command line, the whole
+ * error is printed, for an operator tracking a fault down on data they may see.
+ */
+export function describeUnexpectedError(error: unknown, env: Record<string, string | undefined> = process.env): string {
+  if (env.THEMATA_DEBUG) return error instanceof Error ? (error.stack ?? `${error.name}: ${error.message}`) : String(error);
+  if (!(error instanceof Error)) return `Unexpected failure (a thrown ${typeof error}; its value is not shown, as it may quote survey answers).`;
+  const code = (error as { code?: unknown }).code;
+  // V8 writes the stack as "Name: message" and then one line per frame; drop the first part whole
+  // (a message may span lines) and keep frame lines only.
+  const stack = error.stack ?? '';
+  const header = String(error);
+  const rest = stack.startsWith(header) ? stack.slice(header.length) : '';
+  const frames = rest.split('\n').filter((line) => /^\s+at \S.*:\d+:\d+\)?$/.test(line)).slice(0, 10);
+  const head = `Unexpected ${error.name}${typeof code === 'string' && /^[A-Z0-9_]{1,40}$/.test(code) ? ` (${code})` : ''}; ` +
+    'its message is not shown, as it may quote survey answers (set THEMATA_DEBUG=1 to see it).';
+  return [head, ...frames].join('\n');
+}

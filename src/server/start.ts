@@ -5,12 +5,14 @@ import { isIP } from 'node:net';
 import { serve } from '@hono/node-server';
 import { JobQueue } from '../jobs/index.js';
 import { createFitRun, ensureDemoStudy } from '../services/index.js';
+import { scannerFromSetting, type UploadScanner } from '../services/scan-upload.js';
 
 /** The run queued when the demo study is first imported. */
 export const DEMO_RUN = { name: 'Eight themes (demo)', themes: 8, sweeps: 400, seed: 20251, holdout: 0.1, covariates: ['branch_region', 'channel', 'age_band', 'wave'] } as const;
 import { countAccounts, listRuns, openStore } from '../store/index.js';
 import { createApp } from './app.js';
 import { normaliseAllowedHost } from './hosts.js';
+import { RequestRateLimiter, type RequestLimits } from './throttle.js';
 
 export interface StartServerOptions {
   host?: string;
@@ -34,6 +36,19 @@ export interface StartServerOptions {
    * separated by commas) is read from the environment.
    */
   allowedHosts?: readonly string[];
+  /**
+   * Request rate limits per signed-in account, or per address when nobody is signed in
+   * (throttle.ts; defaults: bursts of 120, 20 a second, posts 30 and 5 a second). `false` turns
+   * them off. `themata serve --requests-per-second N` sets them.
+   */
+  requestLimits?: RequestLimits | false;
+  /** Fits one account may have queued or running at once (default 3; see src/jobs/queue.ts). */
+  fitsPerAccount?: number;
+  /**
+   * Virus scanner for uploads (src/services/scan-upload.ts). Without the option the command in
+   * `THEMATA_SCAN_COMMAND` is used; with neither, uploads are not scanned.
+   */
+  uploadScanner?: UploadScanner;
 }
 
 export interface RunningServer {
@@ -81,7 +96,7 @@ export async function startServer(options: StartServerOptions): Promise<RunningS
     );
   }
   const demo = options.demo ? await ensureDemoStudy(store) : null;
-  const queue = new JobQueue({ store, concurrency: options.concurrency });
+  const queue = new JobQueue({ store, concurrency: options.concurrency, fitsPerAccount: options.fitsPerAccount });
   queue.start();
   if (demo !== null && demo.status !== 'skipped' && demo.studyId !== null && listRuns(store, demo.studyId).length === 0) {
     // A newcomer's first look should include themes: while the demo study has no run, a start
@@ -98,6 +113,8 @@ export async function startServer(options: StartServerOptions): Promise<RunningS
     secureCookies: options.secureCookies ?? fromEnv.secureCookies,
     allowedHosts,
     uploadLimitBytes: options.uploadLimitBytes,
+    uploadScanner: options.uploadScanner ?? scannerFromSetting(undefined, process.env),
+    requestLimiter: options.requestLimits === false ? false : new RequestRateLimiter(options.requestLimits ?? {}),
     localCsrf: randomBytes(24).toString('base64url'),
   });
   const { server, port } = await new Promise<{ server: ReturnType<typeof serve>; port: number }>((resolve, reject) => {

@@ -1,7 +1,8 @@
 // What every route can reach: the store, the job queue, and who is asking.
 import type { JobQueue } from '../jobs/index.js';
-import type { Store } from '../store/index.js';
-import type { SignInThrottle } from './throttle.js';
+import type { UploadScanner } from '../services/scan-upload.js';
+import type { ScryptCost, Store } from '../store/index.js';
+import type { RequestRateLimiter, SignInThrottle } from './throttle.js';
 
 export interface CurrentUser {
   /** Account id, or null in single-user local mode. */
@@ -21,8 +22,14 @@ export interface AppDeps {
   readonly allowedHosts?: readonly string[];
   /** Sign-in failure counter (one per app by default). */
   readonly signInThrottle?: SignInThrottle;
+  /** Request rate limits per account or address (createApp makes one with the defaults when absent; `false` turns them off). */
+  readonly requestLimiter?: RequestRateLimiter | false;
   /** Largest upload accepted, in bytes (default 100 MB, common practice for survey exports). */
   readonly uploadLimitBytes?: number;
+  /** Tests only: a lower scrypt cost for new password hashes, so tests run quickly. startServer never sets it; production always hashes at PASSWORD_COST. */
+  readonly passwordCost?: ScryptCost;
+  /** Virus scanner every upload passes before it is read (OWASP ASVS 4.0.3 V12.4.2); none when absent. */
+  readonly uploadScanner?: UploadScanner;
   /** CSRF token of the single local user (random per process). */
   readonly localCsrf?: string;
 }

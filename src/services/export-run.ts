@@ -2,6 +2,7 @@
 import { documentTokensByIds, getStudy, getStudyWordLists, iterateDocuments, listImports, loadVocabulary, type Store } from '../store/index.js';
 import { answersTable, type AnswerRow } from './answers-table.js';
 import { BUNDLE_EXTENSION, BUNDLE_VERSION, encodeBundle, type RunBundle } from './bundle.js';
+import { installationKey } from './bundle-key.js';
 import { SHARES_HEADER, contrastCovariates, runContrasts } from './contrasts.js';
 import { csvBytes, round6, type CsvCell } from './csv.js';
 import { alphaForCovariates, foldInDocuments } from './fold-in.js';
@@ -148,6 +149,6 @@ export function exportRun(store: Store, model: RunModel, options: ExportOptions 
     { name: 'theme-words.csv', mediaType: 'text/csv; charset=utf-8', bytes: csvBytes(['theme', 'language', 'rank', 'word', 'stem', 'probability', 'exclusivity'], themeWordsRows(model, n)) },
     { name: 'theme-shares-by-group.csv', mediaType: 'text/csv; charset=utf-8', bytes: csvBytes(SHARES_HEADER, shareRows) },
     { name: 'codebook.json', mediaType: 'application/json', bytes: new TextEncoder().encode(JSON.stringify(codebook, null, 2) + '\n') },
-    { name: `${safeFileStem(model.run.name)}${BUNDLE_EXTENSION}`, mediaType: 'application/octet-stream', bytes: encodeBundle(buildBundle(store, model)) },
+    { name: `${safeFileStem(model.run.name)}${BUNDLE_EXTENSION}`, mediaType: 'application/octet-stream', bytes: encodeBundle(buildBundle(store, model), installationKey(store.dataDir)) },
   ];
 }

@@ -18,9 +18,26 @@ export { loadRunModel, themeWords, documentMixtures, overallShares, dominantThem
 export { runContrasts, contrastCovariates, SHARES_HEADER, type ContrastRequest } from './contrasts.js';
 export { exportRun, buildBundle, studyAnswerRows, studyCovariates, studyIdColumn, type ExportedFile, type ExportOptions } from './export-run.js';
 export { applyRun, type ApplyOptions, type ApplySummary } from './apply-run.js';
-export { encodeBundle, decodeBundle, BUNDLE_EXTENSION, type RunBundle } from './bundle.js';
+export { encodeBundle, decodeBundle, openBundle, UntrustedBundleError, BUNDLE_EXTENSION, type RunBundle, type BundleOrigin } from './bundle.js';
+export { installationKey, BUNDLE_KEY_FILE } from './bundle-key.js';
 export { answersTable, shareColumns, type AnswerRow } from './answers-table.js';
 export { toCsv, csvBytes, guardCell } from './csv.js';
 export { foldInDocuments, type FoldInDocument, type FoldInResult } from './fold-in.js';
 export { ensureDemoStudy, DEMO_STUDY_NAME, DEMO_FILE, type DemoOutcome } from './demo.js';
 export { runChecks, type RunChecks } from './checks.js';
+export {
+  planStudyRemoval,
+  planRunRemoval,
+  planImportRemoval,
+  removeStudy,
+  removeRun,
+  removeImport,
+  describeStudyContents,
+  describeRunContents,
+  formatBytes,
+  type FitStopper,
+  type StudyRemovalPlan,
+  type RunRemovalPlan,
+  type ImportRemovalPlan,
+  type RemovalOutcome,
+} from './removal.js';

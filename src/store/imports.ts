@@ -2,7 +2,7 @@
 // nothing a user uploaded is lost or needs uploading again (DESIGN §3).
 import { createHash } from 'node:crypto';
 import type { ColumnMapping, TableFormat } from '../text/types.js';
-import { now, type Store } from './database.js';
+import { inTransaction, now, type Store } from './database.js';
 
 export interface ImportRecord {
   readonly id: number;
@@ -83,4 +83,16 @@ export function getImport(store: Store, importId: number): ImportRecord | undefi
 export function getImportBytes(store: Store, importId: number): Uint8Array | undefined {
   const row = store.db.prepare('SELECT original FROM imports WHERE id = ?').get(importId) as { original: Buffer } | undefined;
   return row ? new Uint8Array(row.original) : undefined;
+}
+
+/** Delete an import with its answers (ON DELETE CASCADE) in one transaction. */
+export function deleteImport(store: Store, importId: number): void {
+  inTransaction(store, () => {
+    store.db.prepare('DELETE FROM imports WHERE id = ?').run(importId);
+  });
+}
+
+/** Ids of an import's answers, in id order. */
+export function importDocumentIds(store: Store, importId: number): number[] {
+  return (store.db.prepare('SELECT id FROM documents WHERE import_id = ? ORDER BY id').all(importId) as { id: number }[]).map((r) => r.id);
 }

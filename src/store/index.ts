@@ -2,9 +2,10 @@
 // Every function takes the Store from openStore(dataDir) first; multi-row writes are one
 // transaction each; wrap several calls in inTransaction() to make them one.
 export { openStore, inTransaction, withBusyRetry, isBusyError, DATABASE_FILE, type Store, type OpenStoreOptions } from './database.js';
+export { eraseInTransaction, vacuumStore, type EraseOutcome } from './erase.js';
 export { migrate, schemaVersion, SCHEMA_VERSION, MIGRATIONS, type Migration } from './migrations.js';
-export { createStudy, getStudy, getStudyByName, listStudies, updateStudy, touchStudy, deleteStudy, type Study, type StudyListItem } from './studies.js';
-export { insertImport, setImportSummary, listImports, getImport, getImportBytes, sha256Hex, type ImportRecord } from './imports.js';
+export { createStudy, getStudy, getStudyByName, listStudies, updateStudy, touchStudy, deleteStudy, studyContents, type Study, type StudyListItem, type StudyContents } from './studies.js';
+export { insertImport, setImportSummary, listImports, getImport, getImportBytes, sha256Hex, deleteImport, importDocumentIds, type ImportRecord } from './imports.js';
 export {
   insertDocuments,
   setDocumentTokens,
@@ -37,6 +38,7 @@ export {
   setRunStatus,
   setRunProgress,
   markRunningAsInterrupted,
+  interruptAbandonedRuns,
   touchRunHeartbeat,
   abandonedReason,
   processIsAlive,
@@ -45,6 +47,8 @@ export {
   RUN_HEARTBEAT_STALE_MS,
   renameRun,
   deleteRun,
+  runContents,
+  type RunContents,
   saveCheckpoint,
   latestCheckpoint,
   clearCheckpoints,
@@ -77,7 +81,10 @@ export {
   countAccounts,
   checkPassword,
   setPassword,
+  changePassword,
   createSession,
+  takePasswordNotice,
+  signInHistory,
   getSession,
   deleteSession,
   deleteExpiredSessions,
@@ -87,8 +94,14 @@ export {
   listStudyMembers,
   giveOwnerlessStudiesToFirstAccount,
   MIN_PASSWORD_LENGTH,
+  MAX_PASSWORD_LENGTH,
+  type PasswordOptions,
+  type PasswordChange,
+  type PasswordChangedBy,
+  type PasswordNotice,
+  type SignInHistory,
   type Account,
   type Session,
   type StudyRole,
 } from './accounts.js';
-export { hashPassword, verifyPassword } from './password.js';
+export { hashPassword, verifyPassword, needsRehash, passwordProblem, isCommonPassword, PasswordRuleError, PASSWORD_COST, type ScryptCost } from './password.js';

@@ -152,6 +152,39 @@ ALTER TABLE runs ADD COLUMN owner_host TEXT;
 ALTER TABLE runs ADD COLUMN heartbeat_at TEXT;
 `,
   },
+  {
+    version: 4,
+    description: 'checkpoints larger than one SQLite value stored in several parts',
+    // better-sqlite3 refuses to bind a value of more than about 512 MB, and a fit of a million
+    // answers keeps G×K posterior sums that are larger; run_checkpoints.bytes holds part 0.
+    sql: `
+CREATE TABLE run_checkpoint_parts (
+  run_id INTEGER NOT NULL,
+  sweep INTEGER NOT NULL,
+  part INTEGER NOT NULL CHECK (part >= 1),
+  bytes BLOB NOT NULL,
+  PRIMARY KEY (run_id, sweep, part),
+  FOREIGN KEY (run_id, sweep) REFERENCES run_checkpoints(run_id, sweep) ON DELETE CASCADE
+);
+`,
+  },
+  {
+    version: 5,
+    description: 'when and by whom a password was last changed, and sign-ins, so the account is told of changes',
+    // OWASP ASVS 4.0.3 V2.2.3, V2.5.5. password_changes counts changes; an account and each session
+    // remember the count they have been told about, so "changed since" never depends on two
+    // timestamps falling in different milliseconds.
+    sql: `
+ALTER TABLE accounts ADD COLUMN password_changed_at TEXT;
+ALTER TABLE accounts ADD COLUMN password_changed_by TEXT CHECK (password_changed_by IN ('account', 'operator'));
+ALTER TABLE accounts ADD COLUMN password_changes INTEGER NOT NULL DEFAULT 0;
+ALTER TABLE accounts ADD COLUMN last_sign_in_at TEXT;
+ALTER TABLE accounts ADD COLUMN password_changes_at_sign_in INTEGER NOT NULL DEFAULT 0;
+ALTER TABLE sessions ADD COLUMN signed_in_at TEXT;
+ALTER TABLE sessions ADD COLUMN previous_sign_in_at TEXT;
+ALTER TABLE sessions ADD COLUMN password_changes_told INTEGER NOT NULL DEFAULT 0;
+`,
+  },
 ];
 
 /** Highest migration number this program knows. */

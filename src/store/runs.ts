@@ -120,19 +120,26 @@ export function uniqueRunName(store: Store, studyId: number, base: string): stri
 /**
  * Change status; sets started_at on 'running' (first time) and finished_at on terminal states.
  * Turning 'running' records this process (id and host name) as the run's owner and beats its heart.
+ * With `from`, the change is made only while the run is in one of those statuses (one guarded
+ * UPDATE, so a late "cancelled" cannot overwrite a run that has just finished). Returns whether
+ * the run changed.
  */
-export function setRunStatus(store: Store, id: number, status: RunStatus, error: string | null = null): void {
+export function setRunStatus(store: Store, id: number, status: RunStatus, error: string | null = null, options: { from?: readonly RunStatus[] } = {}): boolean {
   const t = now();
   const terminal = status === 'finished' || status === 'failed' || status === 'cancelled';
   const running = status === 'running' ? 1 : 0;
-  store.db
+  const guard = options.from ? ' AND status IN (SELECT value FROM json_each(?))' : '';
+  const params: unknown[] = [status, error, running, t, terminal ? 1 : 0, t, running, process.pid, running, hostname(), t, id];
+  if (options.from) params.push(JSON.stringify(options.from));
+  const info = store.db
     .prepare(
       `UPDATE runs SET status = ?, error = ?, started_at = CASE WHEN ? AND started_at IS NULL THEN ? ELSE started_at END,
        finished_at = CASE WHEN ? THEN ? ELSE NULL END,
        owner_pid = CASE WHEN ? THEN ? ELSE owner_pid END, owner_host = CASE WHEN ? THEN ? ELSE owner_host END,
-       heartbeat_at = ? WHERE id = ?`,
+       heartbeat_at = ? WHERE id = ?${guard}`,
     )
-    .run(status, error, running, t, terminal ? 1 : 0, t, running, process.pid, running, hostname(), t, id);
+    .run(...params);
+  return info.changes > 0;
 }
 
 /** Store progress; also the run's heartbeat. */
@@ -197,23 +204,75 @@ export function markRunFinished(store: Store, id: number, progress: RunProgress)
     .run(JSON.stringify(progress), t, t, id);
 }
 
-/** On start-up: every run left 'running' by a stopped process becomes 'interrupted'. */
+/**
+ * Every run left 'running' becomes 'interrupted', whoever runs it. Only for a data folder no
+ * other process can be using; a starting server uses interruptAbandonedRuns instead.
+ */
 export function markRunningAsInterrupted(store: Store): number {
   return store.db.prepare("UPDATE runs SET status = 'interrupted' WHERE status = 'running'").run().changes;
+}
+
+/**
+ * On start-up: runs left 'running' whose process is gone or whose heartbeat is stale become
+ * 'interrupted'; a run a live `themata fit` (or another workbench) is still fitting is left alone.
+ * Returns the runs interrupted, with the reason.
+ */
+export function interruptAbandonedRuns(store: Store, options: Parameters<typeof abandonedReason>[1] = {}): { runId: number; reason: string }[] {
+  const out: { runId: number; reason: string }[] = [];
+  for (const run of listRunsByStatus(store, ['running'])) {
+    const reason = interruptIfAbandoned(store, run.id, options);
+    if (reason) out.push({ runId: run.id, reason });
+  }
+  return out;
 }
 
 export function renameRun(store: Store, id: number, name: string): void {
   store.db.prepare('UPDATE runs SET name = ? WHERE id = ?').run(name, id);
 }
 
+/** Delete a run with its checkpoints, results, theme labels and exported files (ON DELETE CASCADE), in one transaction. */
 export function deleteRun(store: Store, id: number): void {
   inTransaction(store, () => store.db.prepare('DELETE FROM runs WHERE id = ?').run(id));
 }
 
-/** Save a checkpoint; keeps only the newest `keep` checkpoints of the run (two by default, so a crash while writing one leaves the previous; common practice). One transaction. */
-export function saveCheckpoint(store: Store, runId: number, sweep: number, bytes: Uint8Array, keep = 2): void {
+/** What deleting runs removes: the runs and the rows that hang on them. */
+export interface RunContents {
+  readonly runs: number;
+  readonly checkpoints: number;
+  readonly results: number;
+  readonly labels: number;
+  readonly exports: number;
+}
+
+/** Rows that deleting `runIds` would remove, counted per table. */
+export function runContents(store: Store, runIds: readonly number[]): RunContents {
+  const ids = JSON.stringify(runIds);
+  const n = (table: string, column = 'run_id') =>
+    (store.db.prepare(`SELECT COUNT(*) AS n FROM ${table} WHERE ${column} IN (SELECT value FROM json_each(?))`).get(ids) as { n: number }).n;
+  return { runs: n('runs', 'id'), checkpoints: n('run_checkpoints'), results: n('run_results'), labels: n('theme_labels'), exports: n('run_exports') };
+}
+
+/** Bytes per stored part of a checkpoint: well under the ~512 MB better-sqlite3 binds in one value. */
+export const CHECKPOINT_PART_BYTES = 128 * 1024 * 1024;
+
+/**
+ * Save a checkpoint; keeps only the newest `keep` checkpoints of the run (two by default, so a
+ * crash while writing one leaves the previous; common practice). One transaction. Checkpoints
+ * larger than CHECKPOINT_PART_BYTES are stored in parts (migration 4).
+ */
+export function saveCheckpoint(store: Store, runId: number, sweep: number, bytes: Uint8Array, keep = 2, partBytes = CHECKPOINT_PART_BYTES): void {
+  const part = (i: number) => {
+    const start = i * partBytes;
+    const view = bytes.subarray(start, Math.min(bytes.byteLength, start + partBytes));
+    return Buffer.from(view.buffer, view.byteOffset, view.byteLength);
+  };
+  const parts = Math.max(1, Math.ceil(bytes.byteLength / partBytes));
   inTransaction(store, () => {
-    store.db.prepare('INSERT OR REPLACE INTO run_checkpoints (run_id, sweep, bytes, created_at) VALUES (?, ?, ?, ?)').run(runId, sweep, Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength), now());
+    // A checkpoint of the same sweep (a resumed run repeating it) goes, with its parts (ON DELETE CASCADE).
+    store.db.prepare('DELETE FROM run_checkpoints WHERE run_id = ? AND sweep = ?').run(runId, sweep);
+    store.db.prepare('INSERT INTO run_checkpoints (run_id, sweep, bytes, created_at) VALUES (?, ?, ?, ?)').run(runId, sweep, part(0), now());
+    const insertPart = store.db.prepare('INSERT INTO run_checkpoint_parts (run_id, sweep, part, bytes) VALUES (?, ?, ?, ?)');
+    for (let i = 1; i < parts; i++) insertPart.run(runId, sweep, i, part(i));
     store.db
       .prepare('DELETE FROM run_checkpoints WHERE run_id = ? AND sweep NOT IN (SELECT sweep FROM run_checkpoints WHERE run_id = ? ORDER BY sweep DESC LIMIT ?)')
       .run(runId, runId, Math.max(1, keep));
@@ -221,8 +280,14 @@ export function saveCheckpoint(store: Store, runId: number, sweep: number, bytes
 }
 
 export function latestCheckpoint(store: Store, runId: number): { sweep: number; bytes: Uint8Array } | undefined {
-  const row = store.db.prepare('SELECT sweep, bytes FROM run_checkpoints WHERE run_id = ? ORDER BY sweep DESC LIMIT 1').get(runId) as { sweep: number; bytes: Buffer } | undefined;
-  return row ? { sweep: row.sweep, bytes: new Uint8Array(row.bytes) } : undefined;
+  return inTransaction(store, () => {
+    const row = store.db.prepare('SELECT sweep, bytes FROM run_checkpoints WHERE run_id = ? ORDER BY sweep DESC LIMIT 1').get(runId) as { sweep: number; bytes: Buffer } | undefined;
+    if (!row) return undefined;
+    const rest = store.db.prepare('SELECT bytes FROM run_checkpoint_parts WHERE run_id = ? AND sweep = ? ORDER BY part').all(runId, row.sweep) as { bytes: Buffer }[];
+    if (rest.length === 0) return { sweep: row.sweep, bytes: new Uint8Array(row.bytes) };
+    const all = Buffer.concat([row.bytes, ...rest.map((r) => r.bytes)]);
+    return { sweep: row.sweep, bytes: new Uint8Array(all.buffer, all.byteOffset, all.byteLength) };
+  });
 }
 
 export function clearCheckpoints(store: Store, runId: number): void {

@@ -112,3 +112,39 @@ export function deleteStudy(store: Store, id: number): void {
     store.db.prepare('DELETE FROM studies WHERE id = ?').run(id);
   });
 }
+
+/** What deleting a study removes, counted per kind. */
+export interface StudyContents {
+  readonly imports: number;
+  /** Bytes of the original files kept with the imports. */
+  readonly originalBytes: number;
+  readonly answers: number;
+  readonly vocabularyWords: number;
+  readonly ownWords: number;
+  readonly runs: number;
+  readonly checkpoints: number;
+  readonly results: number;
+  readonly labels: number;
+  readonly exports: number;
+  readonly members: number;
+}
+
+export function studyContents(store: Store, studyId: number): StudyContents {
+  const row = store.db
+    .prepare(
+      `SELECT
+        (SELECT COUNT(*) FROM imports WHERE study_id = @id) AS imports,
+        (SELECT COALESCE(SUM(size), 0) FROM imports WHERE study_id = @id) AS originalBytes,
+        (SELECT COUNT(*) FROM documents WHERE study_id = @id) AS answers,
+        (SELECT COUNT(*) FROM vocabularies WHERE study_id = @id) AS vocabularyWords,
+        (SELECT COUNT(*) FROM study_word_lists WHERE study_id = @id) AS ownWords,
+        (SELECT COUNT(*) FROM runs WHERE study_id = @id) AS runs,
+        (SELECT COUNT(*) FROM run_checkpoints WHERE run_id IN (SELECT id FROM runs WHERE study_id = @id)) AS checkpoints,
+        (SELECT COUNT(*) FROM run_results WHERE run_id IN (SELECT id FROM runs WHERE study_id = @id)) AS results,
+        (SELECT COUNT(*) FROM theme_labels WHERE run_id IN (SELECT id FROM runs WHERE study_id = @id)) AS labels,
+        (SELECT COUNT(*) FROM run_exports WHERE run_id IN (SELECT id FROM runs WHERE study_id = @id)) AS exports,
+        (SELECT COUNT(*) FROM study_members WHERE study_id = @id) AS members`,
+    )
+    .get({ id: studyId }) as StudyContents;
+  return { ...row };
+}

@@ -2,6 +2,7 @@
 // import → languages → vocabulary → fit → export → apply → checks → contrasts.
 import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
+import { gunzipSync, gzipSync } from 'node:zlib';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { tempDir } from '../store/helpers.js';
 import { FIXTURE_FLAGS, surveyCsv, surveyRows } from '../services/survey-fixture.js';
@@ -128,9 +129,33 @@ describe('themata command line, end to end', () => {
     expect(coded.lines).toHaveLength(21);
     expect(r1.stderr).toMatch(/Coded 20 of 20 answers/);
     const out2 = join(t.dir, 'coded-from-bundle.csv');
-    const r2 = await cli(['--data', join(t.dir, 'no-database'), 'apply', '--bundle', join(t.dir, 'export', 'small.themata-run'), join(t.dir, 'wave2.csv'), '--out', out2, '--text', 'answer', '--id', 'id', '--covariate', 'region']);
+    // Another data folder is another installation: its key did not sign the bundle (V5.5.1).
+    const args2 = ['--data', join(t.dir, 'no-database'), 'apply', '--bundle', join(t.dir, 'export', 'small.themata-run'), join(t.dir, 'wave2.csv'), '--out', out2, '--text', 'answer', '--id', 'id', '--covariate', 'region'];
+    const refused = await cli(args2);
+    expect(refused.code).toBe(2);
+    expect(refused.stderr).toMatch(/small\.themata-run was saved by another Themata installation.*apply it with --trust-bundle/);
+    const r2 = await cli([...args2, '--trust-bundle']);
     expect(r2.code).toBe(0);
+    expect(r2.stderr).toMatch(/a bundle of another Themata installation, because --trust-bundle was given/);
     expect(csvText(out2).lines[0]).toBe('id,question,region,language,link key,weight,Theme 1,Theme 2,Theme 3,dominant theme');
+  });
+
+  it('V5.5.1: applies a bundle this data folder signed, and refuses the same bundle once edited, even with --trust-bundle', async () => {
+    const bundleFile = join(t.dir, 'export', 'small.themata-run');
+    const args = (bundle: string, out: string) => ['--data', data, 'apply', '--bundle', bundle, join(t.dir, 'wave2.csv'), '--out', out, '--text', 'answer', '--id', 'id', '--covariate', 'region'];
+    const ok = await cli(args(bundleFile, join(t.dir, 'coded-signed.csv')));
+    expect(ok.code).toBe(0);
+    expect(ok.stderr).not.toMatch(/trust/);
+    // Relabel a theme inside the signed payload, as someone editing the file would.
+    const envelope = JSON.parse(gunzipSync(readFileSync(bundleFile)).toString('utf8'));
+    envelope.payload = envelope.payload.replace('"Theme 1"', '"Theme one"');
+    const edited = join(t.dir, 'edited.themata-run');
+    writeFileSync(edited, gzipSync(JSON.stringify(envelope)));
+    for (const extra of [[], ['--trust-bundle']]) {
+      const r = await cli([...args(edited, join(t.dir, 'coded-edited.csv')), ...extra]);
+      expect(r.code).toBe(2);
+      expect(r.stderr).toMatch(/edited\.themata-run was changed after this Themata installation saved it \(its signature does not match\)/);
+    }
   });
 
   it('reports checks and contrasts', async () => {

@@ -7,6 +7,32 @@ import { countsFromAssignments } from '../../src/model/reference-sampler.js';
 import { Xoshiro128 } from '../../src/model/rng.js';
 import { describeSamplerExactness, enumerationFixture } from './sampler-exactness.case.js';
 import { syntheticCorpus } from './fast-fixtures.js';
+import { FastState } from '../../src/model/fast-state.js';
+import { createScratch, sweepGroups } from '../../src/model/fast-sweep.js';
+import type { Corpus, Priors } from '../../src/model/types.js';
+
+/**
+ * AD-LDA written out on one thread (Newman et al., JMLR 2009, §2, eq. 3): every partition sweeps
+ * its groups against its own copy of the counts, then each copy adds the other partitions' moves.
+ * The threaded sampler must draw exactly this, whatever the order of its hand-offs.
+ */
+function serialAdLda(corpus: Corpus, z: Uint16Array, priors: Priors, partitions: number) {
+  const bounds = partitionGroups(corpus, partitions);
+  const copies = Array.from({ length: partitions }, () => new FastState(corpus, z, priors, false));
+  const scratches = copies.map(() => createScratch(priors.K));
+  const logs = copies.map(() => new Int32Array(2 * corpus.words.length + 2));
+  return {
+    z,
+    sweep(rng: Xoshiro128): void {
+      const seed = Math.floor(rng.nextDouble() * 4294967296) | 0;
+      const lengths = copies.map((st, p) => sweepGroups(st, scratches[p], z, priors.groupPattern, bounds[p], bounds[p + 1], Xoshiro128.fromSeed(seed, p), logs[p]));
+      copies.forEach((st, p) => logs.forEach((log, q) => q !== p && st.applyMoves(log, lengths[q])));
+    },
+    setPriors(next: Priors): void {
+      for (const st of copies) st.setPriors(next);
+    },
+  };
+}
 
 // With one thread the parallel sampler is the fast exact sweep run through the partition and
 // merge machinery, so the whole shared suite applies. With two threads AD-LDA is an approximation
@@ -61,6 +87,30 @@ describe('parallel sampler', () => {
       const expected = countsFromAssignments(corpus, sampler.z, priors.K);
       expect(Array.from(sampler.wordTopicCounts())).toEqual(Array.from(expected.nkw));
       expect(Array.from(sampler.topicTotals())).toEqual(Array.from(expected.nk));
+    } finally {
+      await sampler.dispose?.();
+    }
+  });
+
+  it('draws exactly what AD-LDA written out on one thread draws, through reads of the counts and new priors (2 threads)', async () => {
+    const { corpus, priors, z } = syntheticCorpus({ K: 7, groups: 500, patterns: 3, seed: 44 });
+    const other = { ...priors, alpha: priors.alpha.map((a, i) => (i % 3 === 0 ? a * 2 : a)), beta: Float64Array.of(0.05, 0.2, 0.01) };
+    const sampler = two(corpus, z.slice(), priors);
+    const serial = serialAdLda(corpus, z.slice(), priors, 2);
+    const rngA = Xoshiro128.fromSeed(9);
+    const rngB = Xoshiro128.fromSeed(9);
+    try {
+      for (let t = 0; t < 12; t++) {
+        sampler.sweep(rngA);
+        serial.sweep(rngB);
+        expect(Array.from(sampler.z), `sweep ${t}`).toEqual(Array.from(serial.z));
+        // Reading the counts between sweeps settles the merge early; it must not change the draws.
+        if (t % 3 === 1) expect(Array.from(sampler.topicTotals())).toEqual(Array.from(countsFromAssignments(corpus, sampler.z, priors.K).nk));
+        if (t === 6) {
+          sampler.setPriors(other);
+          serial.setPriors(other);
+        }
+      }
     } finally {
       await sampler.dispose?.();
     }

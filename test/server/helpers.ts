@@ -4,7 +4,7 @@ import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { JobQueue } from '../../src/jobs/index.js';
-import { createApp, type SignInThrottle } from '../../src/server/index.js';
+import { createApp, type RequestRateLimiter, type SignInThrottle } from '../../src/server/index.js';
 import { openStore, type Store } from '../../src/store/index.js';
 
 export const LOCAL_CSRF = 'local-token-for-tests-0123456789';
@@ -24,6 +24,12 @@ export interface MakeAppOptions {
   secureCookies?: boolean;
   allowedHosts?: string[];
   signInThrottle?: SignInThrottle;
+  /**
+   * Request rate limits. Route tests send hundreds of requests a second as one account, far beyond
+   * any person, so they run without limits unless a test passes a limiter; the limits have their
+   * own tests (test/server/request-limits.test.ts), and `startServer` always has them.
+   */
+  requestLimiter?: RequestRateLimiter;
 }
 
 export function makeApp(options: MakeAppOptions = {}): TestApp {
@@ -40,6 +46,7 @@ export function makeApp(options: MakeAppOptions = {}): TestApp {
     secureCookies: options.secureCookies,
     allowedHosts: options.allowedHosts,
     signInThrottle: options.signInThrottle,
+    requestLimiter: options.requestLimiter ?? false,
   });
   return {
     app,

@@ -50,13 +50,14 @@ describe('saved-run bundle', () => {
   };
 
   it('round-trips every array bit for bit', () => {
-    const back = decodeBundle(encodeBundle(bundle));
+    const key = new Uint8Array(32).fill(7);
+    const back = decodeBundle(encodeBundle(bundle, key), { key });
     expect([...back.phi[0]]).toEqual([...phi[0]]);
     expect([...back.lambda]).toEqual([-2.3, -2.3]);
     expect(back.labels).toEqual(['A', 'B']);
   });
 
   it('refuses other files with an InputError', () => {
-    expect(() => decodeBundle(new TextEncoder().encode('id,answer\n'), 'x.csv')).toThrow(InputError);
+    expect(() => decodeBundle(new TextEncoder().encode('id,answer\n'), { key: new Uint8Array(32), fileName: 'x.csv' })).toThrow(InputError);
   });
 });

@@ -151,6 +151,24 @@ describe('runs, checkpoints, results and labels', () => {
     expect((ctx.store.db.prepare('SELECT COUNT(*) AS n FROM run_checkpoints').get() as { n: number }).n).toBe(2);
   });
 
+  it('stores a checkpoint larger than one part in several parts, reads it back whole, and drops old parts with old checkpoints', () => {
+    const st = S.createStudy(ctx.store, { name: 'S' });
+    const run = S.createRun(ctx.store, { studyId: st.id, name: 'k3', settings });
+    const parts = (): number => (ctx.store.db.prepare('SELECT COUNT(*) AS n FROM run_checkpoint_parts').get() as { n: number }).n;
+    const bytes = Uint8Array.from({ length: 1000 }, (_, i) => (i * 37) & 255);
+    // 1000 bytes in parts of 300: part 0 in run_checkpoints, parts 1–3 beside it.
+    S.saveCheckpoint(ctx.store, run.id, 10, bytes, 2, 300);
+    expect(parts()).toBe(3);
+    expect(S.latestCheckpoint(ctx.store, run.id)).toEqual({ sweep: 10, bytes });
+    // Saving the same sweep again replaces it and its parts.
+    S.saveCheckpoint(ctx.store, run.id, 10, bytes.subarray(0, 500), 2, 300);
+    expect(parts()).toBe(1);
+    expect(S.latestCheckpoint(ctx.store, run.id)?.bytes).toEqual(bytes.subarray(0, 500));
+    for (const sweep of [20, 30]) S.saveCheckpoint(ctx.store, run.id, sweep, new Uint8Array([sweep]), 2, 300);
+    expect(parts(), 'the parts of the dropped checkpoint of sweep 10 are gone').toBe(0);
+    expect(ctx.store.db.prepare('PRAGMA foreign_key_check').all()).toEqual([]);
+  });
+
   it('round-trips typed arrays and JSON results exactly', () => {
     const st = S.createStudy(ctx.store, { name: 'S' });
     const run = S.createRun(ctx.store, { studyId: st.id, name: 'k3', settings });

@@ -1,8 +1,10 @@
 // Answers: read what people wrote, filtered by language, group and dominant theme, each answer
-// with its theme mix.
+// with its theme mix. The filter form is posted, so search words stay out of addresses (OWASP
+// ASVS 4.0.3 V8.3.1); filters without free text also work as links (?language=…&theme=…).
 import { ShareStrip } from '../charts/index.js';
 import { Cautions, count, Pager, percent } from '../components.js';
-import { Layout, type PageFrame } from '../layout.js';
+import { CsrfField, Layout, type PageFrame } from '../layout.js';
+import { PostPager } from '../post-pager.js';
 
 export interface AnswerView {
   readonly rowId: string;
@@ -30,7 +32,8 @@ export function AnswersPage(props: {
     <Layout {...props.frame}>
       <h1>Answers</h1>
       <Cautions privacy />
-      <form method="get" action={`${props.base}/answers`} class="row filters" id="answer-filters">
+      <form method="post" action={`${props.base}/answers`} class="row filters" id="answer-filters">
+        <CsrfField csrf={props.frame.csrf} />
         <label>
           Language
           <select name="language">
@@ -75,7 +78,11 @@ export function AnswersPage(props: {
           </li>
         ))}
       </ol>
-      <Pager base={`${props.base}/answers`} query={{ language: f.language, theme: f.theme, group: f.by ? `${f.by}=${f.level}` : '', q: f.q }} offset={props.offset} limit={props.limit} total={props.total} />
+      {f.q ? (
+        <PostPager action={`${props.base}/answers`} fields={{ language: f.language, theme: f.theme, group: f.by ? `${f.by}=${f.level}` : '', q: f.q }} csrf={props.frame.csrf} offset={props.offset} limit={props.limit} total={props.total} />
+      ) : (
+        <Pager base={`${props.base}/answers`} query={{ language: f.language, theme: f.theme, group: f.by ? `${f.by}=${f.level}` : '' }} offset={props.offset} limit={props.limit} total={props.total} />
+      )}
     </Layout>
   );
 }

@@ -31,6 +31,8 @@ export interface DataPageProps {
   readonly members?: readonly MemberRow[];
   readonly canShare: boolean;
   readonly declaredLanguages: string[];
+  /** One line: whether uploads are checked for viruses. */
+  readonly scanning?: string;
 }
 
 function bytes(n: number): string {
@@ -70,6 +72,7 @@ export function DataPage(props: DataPageProps) {
               <th scope="col">By language</th>
               <th scope="col">Left out</th>
               <th scope="col">Imported</th>
+              {props.canShare && <th scope="col">Actions</th>}
             </tr>
           </thead>
           <tbody>
@@ -83,6 +86,7 @@ export function DataPage(props: DataPageProps) {
                 <td>{entries(i.perLanguage)}</td>
                 <td>{entries(i.excluded)}</td>
                 <td>{when(i.createdAt)}</td>
+                {props.canShare && <td><a href={`${base}/imports/${i.id}/delete`} aria-label={`Delete ${i.fileName}`}>Delete…</a></td>}
               </tr>
             ))}
           </tbody>
@@ -101,6 +105,7 @@ export function DataPage(props: DataPageProps) {
               Sheet <input name="sheet" placeholder="first sheet" />
               <span class="hint">Excel only: the sheet to read.</span>
             </label>
+            {props.scanning && <p class="hint" id="upload-scanning">{props.scanning}</p>}
             <button type="submit">Upload and choose columns</button>
           </form>
         </section>
@@ -128,6 +133,13 @@ export function DataPage(props: DataPageProps) {
               <button type="submit">Share</button>
             </form>
           )}
+        </section>
+      )}
+      {props.canShare && (
+        <section class="panel" id="delete-study">
+          <h2>Delete this study</h2>
+          <p class="hint">Removes every file, answer, run and result of the study from Themata; the next page lists what goes and asks you to confirm.</p>
+          <a href={`${base}/delete`}>Delete this study…</a>
         </section>
       )}
       <Cautions weights={false} privacy />

@@ -19,7 +19,7 @@ const DESCRIPTIONS: Record<string, string> = {
 
 function describe(name: string): string {
   if (DESCRIPTIONS[name]) return DESCRIPTIONS[name];
-  if (name.endsWith('.themata-run')) return 'The saved run: load it with `themata apply` to code new answers without this database.';
+  if (name.endsWith('.themata-run')) return 'The saved run, signed by this installation: load it with `themata apply` to code new answers without this database (on another installation, add `--trust-bundle` if you trust where the file came from).';
   if (name.startsWith('coded-')) return 'New answers coded with this run (Apply).';
   return '';
 }

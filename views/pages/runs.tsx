@@ -57,6 +57,8 @@ export function RunsPage(props: {
   covariates: readonly { name: string; levels: number; numeric: boolean }[];
   answers: number;
   canEdit: boolean;
+  /** The study's owner may delete runs. */
+  canDelete?: boolean;
   error?: string;
 }) {
   const base = `/studies/${props.studyId}/runs`;
@@ -95,7 +97,10 @@ export function RunsPage(props: {
                 </td>
                 <td>{when(r.createdAt)}</td>
                 <td>{when(r.finishedAt)}</td>
-                <td>{props.canEdit && <RunActions studyId={props.studyId} runId={r.id} status={r.status} csrf={props.frame.csrf} />}</td>
+                <td>
+                  {props.canEdit && <RunActions studyId={props.studyId} runId={r.id} status={r.status} csrf={props.frame.csrf} />}
+                  {props.canDelete && <> <a href={`${base}/${r.id}/delete`} aria-label={`Delete run ${r.name}`}>Delete…</a></>}
+                </td>
               </tr>
             ))}
           </tbody>

@@ -2,6 +2,7 @@
 // words, and the settings that decide which words are kept.
 import { count, Notice, Pager } from '../components.js';
 import { CsrfField, Layout, type PageFrame } from '../layout.js';
+import { PostPager } from '../post-pager.js';
 
 export interface VocabularyPageProps {
   readonly frame: PageFrame;
@@ -65,7 +66,9 @@ export function VocabularyPage(props: VocabularyPageProps) {
         <div class="columns">
           <section>
             <h2>Most frequent words · {props.language}</h2>
-            <form method="get" action={base} class="row">
+            {/* Posted, so the words searched for stay out of addresses (OWASP ASVS 4.0.3 V8.3.1). */}
+            <form method="post" action={`${base}/search`} class="row" id="vocabulary-search">
+              <CsrfField csrf={props.frame.csrf} />
               <input type="hidden" name="language" value={props.language} />
               <label>Find <input name="q" value={props.search} /></label>
               <button type="submit">Search</button>
@@ -90,7 +93,11 @@ export function VocabularyPage(props: VocabularyPageProps) {
                 ))}
               </tbody>
             </table>
-            <Pager base={base} query={{ language: props.language, q: props.search }} offset={props.offset} limit={props.limit} total={props.totalWords} />
+            {props.search ? (
+              <PostPager action={`${base}/search`} fields={{ language: props.language, q: props.search }} csrf={props.frame.csrf} offset={props.offset} limit={props.limit} total={props.totalWords} />
+            ) : (
+              <Pager base={base} query={{ language: props.language }} offset={props.offset} limit={props.limit} total={props.totalWords} />
+            )}
             {props.collocations.length > 0 && (
               <>
                 <h3>Word pairs kept as one word</h3>

@@ -2,8 +2,10 @@
 // Welling, "Distributed algorithms for topic models", JMLR 10, 2009, §2). Link groups are split
 // into contiguous partitions of equal token count; partition 0 runs on the calling thread, the
 // others on worker threads. Every partition samples with the fast exact sweep (fast-sweep.ts)
-// against its own copy of the word-topic counts, logs its moves, and after every sweep each copy
-// adds the other partitions' moves, so all copies equal the counts of the shared z again.
+// against its own copy of the word-topic counts and logs its moves; before the next sweep (or a
+// read of the counts, or new priors) each copy adds the other partitions' moves, so all copies
+// equal the counts of the shared z again. One thread hand-off per sweep: the merge of sweep s−1
+// and the sampling of sweep s run in one command (protocol.ts).
 // Corpus arrays, z, α and β live in SharedArrayBuffers: shared, never copied per token.
 // Deterministic for a given seed and thread count: the partition depends only on the thread
 // count, partition p draws from Xoshiro128.fromSeed(sweepSeed, p), and merges add integers.
@@ -14,8 +16,8 @@ import { createScratch, sweepGroups, type FastScratch } from '../fast-sweep.js';
 import { Xoshiro128 } from '../rng.js';
 import { checkPriors } from '../reference-sampler.js';
 import { partitionGroups } from './partition.js';
-import { mergeOtherLogs } from './merge.js';
-import { CMD_INIT, CMD_MERGE, CMD_PRIORS, CMD_SWEEP, LOG_LENGTH, type InitMessage } from './protocol.js';
+import { PendingMerge } from './merge.js';
+import { CMD_INIT, CMD_PRIORS, CMD_SWEEP, LOG_LENGTH, type InitMessage } from './protocol.js';
 import { WorkerPool } from './worker-pool.js';
 
 type Typed = Int32Array | Uint16Array | Uint8Array | Float64Array;
@@ -47,6 +49,9 @@ class ParallelSampler implements Sampler {
   private readonly job: InitMessage;
   private readonly state: FastState;
   private readonly scratch: FastScratch;
+  private readonly pending: PendingMerge;
+  private sweeps = 0;
+  private groupLogLik = NaN;
   private released = false;
 
   constructor(
@@ -61,10 +66,13 @@ class ParallelSampler implements Sampler {
     this.name = `parallel-${T}`;
     const c = sharedCorpus(corpus);
     const bounds = partitionGroups(c, T);
-    const logs: Int32Array[] = [];
-    for (let p = 0; p < T; p++) {
-      const tokens = c.docOffsets[c.groupDocOffsets[bounds[p + 1]]] - c.docOffsets[c.groupDocOffsets[bounds[p]]];
-      logs.push(new Int32Array(new SharedArrayBuffer(Math.max(2, 2 * tokens) * 4)));
+    // With one partition nothing is merged, so no log is kept.
+    const logs: Int32Array[][] = [[], []];
+    for (const side of logs) {
+      for (let p = 0; p < T; p++) {
+        const tokens = T === 1 ? 0 : c.docOffsets[c.groupDocOffsets[bounds[p + 1]]] - c.docOffsets[c.groupDocOffsets[bounds[p]]];
+        side.push(new Int32Array(new SharedArrayBuffer(Math.max(2, 2 * tokens) * 4)));
+      }
     }
     this.job = {
       corpus: c,
@@ -76,9 +84,12 @@ class ParallelSampler implements Sampler {
       bounds,
       logs,
       ctrlAll: pool.ctrlAll,
+      track: new Int32Array(new SharedArrayBuffer(4)),
+      groupLogLik: new Float64Array(new SharedArrayBuffer(8 * T)),
     };
     this.state = new FastState(c, this.job.z, this.priorsView());
     this.scratch = createScratch(priors.K);
+    this.pending = new PendingMerge(logs, pool.ctrlAll, 0);
     pool.post(CMD_INIT, 0, this.job);
     pool.wait();
   }
@@ -86,13 +97,18 @@ class ParallelSampler implements Sampler {
   sweep(rng: Rng): void {
     const { pool, job, state } = this;
     const seed = Math.floor(rng.nextDouble() * 4294967296) | 0;
-    pool.post(CMD_SWEEP, seed);
-    const length = sweepGroups(state, this.scratch, job.z, job.groupPattern, job.bounds[0], job.bounds[1], Xoshiro128.fromSeed(seed, 0), job.logs[0]);
-    Atomics.store(pool.ctrlAll, LOG_LENGTH, length);
+    const parity = this.sweeps++ & 1;
+    pool.post(CMD_SWEEP, seed, undefined, parity);
+    this.pending.settle(state);
+    const log = pool.partitions > 1 ? job.logs[parity][0] : null;
+    const length = sweepGroups(state, this.scratch, job.z, job.groupPattern, job.bounds[0], job.bounds[1], Xoshiro128.fromSeed(seed, 0), log);
+    Atomics.store(pool.ctrlAll, LOG_LENGTH + parity, length);
+    job.groupLogLik[0] = this.scratch.groupLogLik;
     pool.wait();
-    pool.post(CMD_MERGE);
-    mergeOtherLogs(state, job.logs, pool.ctrlAll, 0);
-    pool.wait();
+    this.pending.owe(parity);
+    let sum = 0;
+    for (let p = 0; p < pool.partitions; p++) sum += job.groupLogLik[p];
+    this.groupLogLik = sum;
     if (job.z !== this.z) this.z.set(job.z);
   }
 
@@ -103,22 +119,36 @@ class ParallelSampler implements Sampler {
     }
     this.job.alpha.set(priors.alpha);
     this.job.beta.set(priors.beta);
+    this.pending.settle(this.state);
     this.state.setPriors(this.priorsView());
+    this.groupLogLik = NaN;
+    // The workers settle their own owed merge before taking the new priors.
     this.pool.post(CMD_PRIORS);
     this.pool.wait();
   }
 
+  trackGroupLogLikelihood(): void {
+    this.scratch.trackGroupLogLik = true;
+    Atomics.store(this.job.track, 0, 1);
+  }
+
+  lastGroupLogLikelihood(): number {
+    return this.groupLogLik;
+  }
+
   wordTopicCounts(): Int32Array {
+    this.pending.settle(this.state);
     return this.state.denseCounts();
   }
 
   topicTotals(): Int32Array {
+    this.pending.settle(this.state);
     return this.state.nk;
   }
 
   /** Bytes of state that grow with the tokens: z, pooled word lists of every copy, move logs. */
   perTokenStateBytes(): number {
-    const logs = this.job.logs.reduce((s, l) => s + l.byteLength, 0);
+    const logs = this.job.logs.flat().reduce((s, l) => s + l.byteLength, 0);
     return this.z.byteLength + (this.job.z !== this.z ? this.job.z.byteLength : 0) + this.pool.partitions * this.state.perTokenBytes() + logs;
   }
 

@@ -3,7 +3,7 @@
 // Sampler.sweep synchronous as the contract in types.ts requires.
 import { MessageChannel, receiveMessageOnPort, type MessagePort, type Worker } from 'node:worker_threads';
 import { spawnTsWorker } from './spawn.js';
-import { CMD, CMD_EXIT, ARG, CTRL_SLOTS, DONE, GEN, STATUS, STATUS_ERROR } from './protocol.js';
+import { CMD, CMD_EXIT, ARG, CTRL_SLOTS, DONE, GEN, PARITY, STATUS, STATUS_ERROR } from './protocol.js';
 
 /** Longest wait for one command before giving up (common practice: generous, a stuck worker is a bug). */
 const WAIT_LIMIT_MS = 15 * 60 * 1000;
@@ -30,14 +30,18 @@ export class WorkerPool {
     }
   }
 
-  /** Starts `cmd` on every worker; `message` (if any) is posted first for the worker to read. */
-  post(cmd: number, arg = 0, message?: unknown): void {
+  /**
+   * Starts `cmd` on every worker; `message` (if any) is posted first for the worker to read;
+   * `parity` is the sweep parity of a sweep command (protocol.ts).
+   */
+  post(cmd: number, arg = 0, message?: unknown, parity = 0): void {
     if (this.closed) throw new Error('The parallel sampler has been disposed.');
     for (let w = 0; w < this.workers.length; w++) {
       const ctrl = this.ctrl(w);
       if (message !== undefined) this.ports[w].postMessage(message);
       Atomics.store(ctrl, CMD, cmd);
       Atomics.store(ctrl, ARG, arg);
+      Atomics.store(ctrl, PARITY, parity);
       Atomics.add(ctrl, GEN, 1);
       Atomics.notify(ctrl, GEN);
     }

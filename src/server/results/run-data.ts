@@ -5,7 +5,7 @@
 import { contrastCovariates, loadRunModel, overallShares, runContrasts, themeWords, type RunModel, type ThemeWord } from '../../services/index.js';
 import type { ContrastResult } from '../../stats/index.js';
 import { contrastKey } from '../../jobs/index.js';
-import { getThemeLabels, iterateDocuments, loadJsonResult, type Store } from '../../store/index.js';
+import { getRun, getThemeLabels, iterateDocuments, loadJsonResult, type Store } from '../../store/index.js';
 
 export interface FittedAnswer {
   readonly id: number;
@@ -51,6 +51,8 @@ export class RunDataCache {
   constructor(private readonly store: Store) {}
 
   get(runId: number): RunData | undefined {
+    // A deleted run's pages (answer text among them) leave memory at the next visit to any run.
+    for (const id of [...this.entries.keys()]) if (!getRun(this.store, id)) this.entries.delete(id);
     const hit = this.entries.get(runId);
     if (hit) {
       this.entries.delete(runId);
@@ -62,6 +64,11 @@ export class RunDataCache {
     this.entries.set(runId, data);
     while (this.entries.size > MAX_CACHED) this.entries.delete(this.entries.keys().next().value!);
     return data;
+  }
+
+  /** Whether this run's results are held in memory (for tests of forgetting). */
+  holds(runId: number): boolean {
+    return this.entries.has(runId);
   }
 
   /** Re-read labels after a rename. */

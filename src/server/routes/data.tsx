@@ -3,6 +3,7 @@ import { Hono, type Context } from 'hono';
 import { HTTPException } from 'hono/http-exception';
 import { DataPage, MappingPage } from '../../../views/pages/data.js';
 import { importFile } from '../../services/import-file.js';
+import { describeScanning, scanUpload } from '../../services/scan-upload.js';
 import { readInputTable } from '../../services/text-pipeline.js';
 import { addStudyMember, getAccountByName, listImports, listStudyMembers, studyRole, type Study } from '../../store/index.js';
 import { InputError, type Table } from '../../text/types.js';
@@ -57,6 +58,7 @@ async function dataPage(c: Context<AppEnv>, study: Study, error?: string, status
       canShare={r === 'owner'}
       members={members}
       declaredLanguages={study.languages}
+      scanning={describeScanning(c.get('deps').uploadScanner)}
     />,
     status,
   );
@@ -109,6 +111,13 @@ export function dataRoutes(): Hono<AppEnv> {
     // Keep only the last path segment of what the browser calls the file: it is shown, never used as a path.
     const fileName = (file.name.split(/[\\/]/).pop() || 'upload').slice(0, 200);
     const sheet = text(body.sheet).trim() || undefined;
+    // Scanned before anything reads or keeps the bytes (OWASP ASVS 4.0.3 V12.4.2).
+    try {
+      await scanUpload(c.get('deps').uploadScanner, bytes, fileName);
+    } catch (error) {
+      if (error instanceof InputError) return dataPage(c, study, error.message, 400);
+      throw error;
+    }
     const key = uploads.put({ studyId: study.id, owner: ownerKey(c), fileName, bytes, sheet });
     try {
       return await mappingPage(c, study, key, { fileName, bytes, sheet });

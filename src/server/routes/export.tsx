@@ -9,6 +9,7 @@ import { ReportDocument } from '../../../views/pages/report.js';
 import { applyRun, buildBundle, exportRun } from '../../services/index.js';
 import { getRunExportBytes, inTransaction, listImports, listRunExports, saveRunExport, studyRole, type Study } from '../../store/index.js';
 import { InputError } from '../../text/types.js';
+import { scanUpload } from '../../services/scan-upload.js';
 import { finishedRunFor, frame, studyFor } from '../access.js';
 import { renderPage } from '../render.js';
 import type { RunData, RunDataCache } from '../results/run-data.js';
@@ -131,7 +132,10 @@ export function exportRoutes(cache: RunDataCache): Hono<AppEnv> {
     if (!(file instanceof File) || file.size === 0) return applyPage(c, { error: 'Choose a file of new answers (it was missing or empty).' });
     const fileName = (file.name.split(/[\\/]/).pop() || 'upload').slice(0, 200);
     try {
-      const out = await applyRun(buildBundle(store, data.model), { bytes: new Uint8Array(await file.arrayBuffer()), fileName, sheet: text(body.sheet).trim() || undefined });
+      const bytes = new Uint8Array(await file.arrayBuffer());
+      // Scanned like every upload before it is read (OWASP ASVS 4.0.3 V12.4.2; scan-upload.ts).
+      await scanUpload(c.get('deps').uploadScanner, bytes, fileName);
+      const out = await applyRun(buildBundle(store, data.model), { bytes, fileName, sheet: text(body.sheet).trim() || undefined });
       const stem = fileName.replace(/\.[^.]+$/, '').replace(/[^\p{L}\p{N}._-]+/gu, '-').slice(0, 80) || 'answers';
       const name = `coded-${stem}.csv`;
       const fileId = saveRunExport(store, run.id, name, out.file.mediaType, out.file.bytes);

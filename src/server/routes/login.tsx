@@ -17,7 +17,7 @@ function safeNext(next: unknown): string {
 }
 
 /** The client's address as the socket sees it (a proxy's address when behind one). */
-function clientAddress(c: Context<AppEnv>): string {
+export function clientAddress(c: Context<AppEnv>): string {
   try {
     return getConnInfo(c).remote.address ?? 'unknown';
   } catch {
@@ -25,7 +25,8 @@ function clientAddress(c: Context<AppEnv>): string {
   }
 }
 
-function waitText(seconds: number): string {
+/** "a minute" or "N minutes", for the throttle's messages. */
+export function waitText(seconds: number): string {
   const minutes = Math.ceil(seconds / 60);
   return minutes <= 1 ? 'a minute' : `${minutes} minutes`;
 }
@@ -51,7 +52,7 @@ export function loginRoutes(): Hono<AppEnv> {
         'If the password is lost, the person who runs this Themata server can set a new one.';
       return renderPage(c, <LoginPage error={error} name={name} next={safeNext(body.next)} />, 429);
     }
-    const account = checkPassword(deps.store, name, password);
+    const account = checkPassword(deps.store, name, password, { cost: deps.passwordCost });
     if (!account) {
       throttle.fail(name, address);
       return renderPage(c, <LoginPage error="That name and password do not match an account." name={name} next={safeNext(body.next)} />, 401);

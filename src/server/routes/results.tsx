@@ -211,14 +211,24 @@ export function resultRoutes(cache: RunDataCache): Hono<AppEnv> {
     );
   }));
 
-  app.get('/studies/:sid/runs/:rid/answers', cached(async (c) => {
+  // Filters without free text may be links (GET); search words arrive only in a POST body, so
+  // they never land in an address, the browser's history or a proxy's log (OWASP ASVS 4.0.3
+  // V8.3.1). A `q` in the address is ignored. Searches are not kept in the page cache.
+  app.get('/studies/:sid/runs/:rid/answers', cached((c) =>
+    answersPage(c, { language: c.req.query('language') ?? '', theme: c.req.query('theme') ?? '', group: c.req.query('group') ?? '', q: '', offset: queryInt(c.req.query('offset'), 0) }),
+  ));
+
+  app.post('/studies/:sid/runs/:rid/answers', async (c) => {
+    const body = await c.req.parseBody();
+    return answersPage(c, { language: text(body.language), theme: text(body.theme), group: text(body.group), q: text(body.q), offset: queryInt(text(body.offset), 0) });
+  });
+
+  async function answersPage(c: Context<AppEnv>, query: { language: string; theme: string; group: string; q: string; offset: number }) {
     const { study, run, data, base } = load(c);
     const { model } = data;
     const K = model.K;
-    const language = c.req.query('language') ?? '';
-    const theme = c.req.query('theme') ?? '';
-    const group = c.req.query('group') ?? '';
-    const q = (c.req.query('q') ?? '').trim().slice(0, 200);
+    const { language, theme, group } = query;
+    const q = query.q.trim().slice(0, 200);
     const eq = group.indexOf('=');
     const by = eq > 0 ? group.slice(0, eq) : '';
     const level = eq > 0 ? group.slice(eq + 1) : '';
@@ -234,7 +244,7 @@ export function resultRoutes(cache: RunDataCache): Hono<AppEnv> {
       matches.push(d);
     }
     if (themeIndex >= 0) matches.sort((x, y) => model.thetaGroups[model.docGroup[y] * K + themeIndex] - model.thetaGroups[model.docGroup[x] * K + themeIndex]);
-    const offset = queryInt(c.req.query('offset'), 0);
+    const offset = query.offset;
     const answers = matches.slice(offset, offset + ANSWERS_PAGE).map((d) => {
       const a = data.answers[d];
       const g = model.docGroup[d];
@@ -262,7 +272,7 @@ export function resultRoutes(cache: RunDataCache): Hono<AppEnv> {
         limit={ANSWERS_PAGE}
       />,
     );
-  }));
+  }
 
   app.get('/studies/:sid/runs/:rid/checks', (c) => {
     const { study, run, data } = load(c);

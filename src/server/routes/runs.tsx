@@ -20,6 +20,11 @@ function canEdit(c: Context<AppEnv>, study: Study): boolean {
   return role === 'owner' || role === 'editor';
 }
 
+function isOwner(c: Context<AppEnv>, study: Study): boolean {
+  const user = c.get('user');
+  return user.id === null || studyRole(c.get('deps').store, study.id, user.id) === 'owner';
+}
+
 function progressView(c: Context<AppEnv>, run: Run): ProgressView {
   const live = c.get('deps').queue.progress(run.id);
   const p = live ?? run.progress;
@@ -77,6 +82,7 @@ export function runRoutes(): Hono<AppEnv> {
         covariates={Object.entries(levels).map(([name, v]) => ({ name, levels: v.distinct, numeric: v.numeric }))}
         answers={included}
         canEdit={canEdit(c, study)}
+        canDelete={isOwner(c, study)}
         error={error}
       />,
       error ? 400 : 200,
@@ -99,6 +105,8 @@ export function runRoutes(): Hono<AppEnv> {
     if (problems.length) return runsPage(c, study, problems.join(' '));
     if ((burnIn as number) >= (sweeps as number)) return runsPage(c, study, 'Burn-in sweeps must be fewer than sweeps.');
     try {
+      // At most a few fits queued or running per account (src/jobs/queue.ts; ASVS 4.0.3 V11.1.3).
+      queue.checkFitLimit(c.get('user').id);
       const run = createFitRun(store, study.id, {
         themes: themes as number,
         sweeps: sweeps as number,
@@ -109,7 +117,7 @@ export function runRoutes(): Hono<AppEnv> {
         covariates: texts(body.covariates),
         name: text(body.name).trim().slice(0, 100) || undefined,
       });
-      queue.enqueue(run.id);
+      queue.enqueue(run.id, c.get('user').id);
       return c.redirect(`/studies/${study.id}/runs/${run.id}`, 303);
     } catch (error) {
       if (error instanceof InputError) return runsPage(c, study, error.message);
@@ -164,7 +172,9 @@ export function runRoutes(): Hono<AppEnv> {
             await stream.sleep(250 - (Date.now() - lastSent));
             pending.splice(0);
           }
-          current = getRun(store, run.id) ?? current;
+          const fresh = getRun(store, run.id);
+          if (!fresh) break; // deleted meanwhile
+          current = fresh;
           await send(current);
           lastSent = Date.now();
         }
@@ -182,10 +192,15 @@ export function runRoutes(): Hono<AppEnv> {
     return c.redirect(`/studies/${study.id}/runs/${run.id}?progress`, 303);
   });
 
-  app.post('/studies/:sid/runs/:rid/resume', (c) => {
+  app.post('/studies/:sid/runs/:rid/resume', async (c) => {
     const study = studyFor(c, 'write');
     const run = runFor(c, study);
-    c.get('deps').queue.resume(run.id);
+    try {
+      c.get('deps').queue.resume(run.id, c.get('user').id);
+    } catch (error) {
+      if (error instanceof InputError) return runsPage(c, study, error.message);
+      throw error;
+    }
     return c.redirect(`/studies/${study.id}/runs/${run.id}`, 303);
   });
   return app;

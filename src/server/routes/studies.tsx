@@ -1,4 +1,4 @@
-// Studies: list and create.
+// Studies: list and create; deleting a study, a file or a run lives in removal.tsx.
 import { Hono, type Context } from 'hono';
 import { StudiesPage } from '../../../views/pages/studies.js';
 import { addStudyMember, createStudy, getStudyByName, listStudies } from '../../store/index.js';
@@ -6,6 +6,7 @@ import { frame, studyFor } from '../access.js';
 import { renderPage } from '../render.js';
 import type { AppEnv } from '../types.js';
 import { parseLanguageList } from './forms.js';
+import { removalRoutes } from './removal.js';
 
 export function studyRoutes(): Hono<AppEnv> {
   const app = new Hono<AppEnv>();
@@ -40,5 +41,6 @@ export function studyRoutes(): Hono<AppEnv> {
     return c.redirect(`/studies/${study.id}/data`, 303);
   });
   app.get('/studies/:sid', (c) => c.redirect(`/studies/${studyFor(c).id}/data`, 303));
+  app.route('/', removalRoutes());
   return app;
 }

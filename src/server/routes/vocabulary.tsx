@@ -1,6 +1,7 @@
 // Vocabulary: sizes, top words, the study's own stop words, pruning settings (saved in the
-// study's settings, applied by rebuilding the vocabulary over the whole study).
-import { Hono } from 'hono';
+// study's settings, applied by rebuilding the vocabulary over the whole study). A word search is
+// posted (POST …/vocabulary/search), so the words stay out of addresses (OWASP ASVS 4.0.3 V8.3.1).
+import { Hono, type Context } from 'hono';
 import { VocabularyPage } from '../../../views/pages/vocabulary.js';
 import { pipelineSettings } from '../../services/text-pipeline.js';
 import { openStopWords, stemmerName, surveyLexicon } from '../../text/index.js';
@@ -20,13 +21,22 @@ function wordList(raw: string): string[] {
 export function vocabularyRoutes(): Hono<AppEnv> {
   const app = new Hono<AppEnv>();
 
-  app.get('/studies/:sid/vocabulary', (c) => {
+  // A `q` in the address is ignored: searches arrive only in a POST body.
+  app.get('/studies/:sid/vocabulary', (c) =>
+    vocabularyPage(c, { language: c.req.query('language'), search: '', offset: queryInt(c.req.query('offset'), 0), saved: Boolean(c.req.query('saved')) }),
+  );
+
+  app.post('/studies/:sid/vocabulary/search', async (c) => {
+    const body = await c.req.parseBody();
+    return vocabularyPage(c, { language: text(body.language), search: text(body.q).slice(0, 100), offset: queryInt(text(body.offset), 0), saved: false });
+  });
+
+  function vocabularyPage(c: Context<AppEnv>, query: { language: string | undefined; search: string; offset: number; saved: boolean }) {
     const study = studyFor(c);
     const { store } = c.get('deps');
     const sizes = vocabularySizes(store, study.id);
-    const language = sizes.some((s) => s.language === c.req.query('language')) ? c.req.query('language')! : (sizes[0]?.language ?? '');
-    const search = (c.req.query('q') ?? '').slice(0, 100);
-    const offset = queryInt(c.req.query('offset'), 0);
+    const language = sizes.some((s) => s.language === query.language) ? query.language! : (sizes[0]?.language ?? '');
+    const { search, offset } = query;
     const words = language ? topWords(store, study.id, language, { limit: PAGE, offset, search: search || undefined }) : [];
     const totalWords = search ? offset + words.length + (words.length === PAGE ? PAGE : 0) : (sizes.find((s) => s.language === language)?.words ?? 0);
     const collocations = language
@@ -72,10 +82,10 @@ export function vocabularyRoutes(): Hono<AppEnv> {
           kept: (language && surveyLexicon(language)?.keep) || [],
         }}
         canEdit={role === 'owner' || role === 'editor'}
-        message={c.req.query('saved') ? 'Saved. The vocabulary was rebuilt; new runs use it (finished runs keep theirs).' : undefined}
+        message={query.saved ? 'Saved. The vocabulary was rebuilt; new runs use it (finished runs keep theirs).' : undefined}
       />,
     );
-  });
+  }
 
   app.post('/studies/:sid/vocabulary/words', async (c) => {
     const study = studyFor(c, 'write');
