@@ -132,6 +132,7 @@ export async function fitModel(
   const began = performance.now();
   let sweep = start;
   let stopped = false;
+  let discardedSample: Float32Array | null = null;
   let lastCheckpointEnd = began;
   let lastCheckpointMs = 0;
   // The checkpoint's arrays are views of the live state (a checkpoint of a million answers holds
@@ -174,16 +175,19 @@ export async function fitModel(
       trace.push(ll);
       if (sweep > s.burnIn && (sweep - s.burnIn) % s.sampleEvery === 0) {
         accumulatePhi(corpus, K, beta, nkw, nk, phiSum);
-        const sample = new Float32Array(G * K);
+        // The oldest kept sample's buffer is reused (G×K floats: 200 MB for a million answers at
+        // K = 50), so a long fit does not allocate, fault in and collect one per sample.
+        let sample: Float32Array;
+        if (keep > 0 && thetaSamples.length >= keep) {
+          sample = thetaSamples.shift()!;
+          thetaSampleSweeps.shift();
+        } else if (keep > 0) sample = new Float32Array(G * K);
+        else sample = discardedSample ??= new Float32Array(G * K);
         groupMixtures(corpus, sampler.z, priors, sample, thetaSum);
         numSamples++;
         if (keep > 0) {
           thetaSamples.push(sample);
           thetaSampleSweeps.push(sweep);
-          if (thetaSamples.length > keep) {
-            thetaSamples.shift();
-            thetaSampleSweeps.shift();
-          }
         }
       }
       const seconds = (performance.now() - began) / 1000;

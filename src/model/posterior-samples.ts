@@ -25,20 +25,31 @@ export function groupMixtures(corpus: Corpus, z: Uint16Array, priors: Priors, ou
   const { alpha, groupPattern } = priors;
   const ngk = new Int32Array(K);
   const { docOffsets, groupDocOffsets } = corpus;
+  // Σ_k α_pk once per covariate pattern (summed in the same order as before, so equal bits).
+  const P = alpha.length / K;
+  const alphaSum = new Float64Array(P);
+  for (let p = 0; p < P; p++) {
+    let A = 0;
+    for (let k = 0; k < K; k++) A += alpha[p * K + k];
+    alphaSum[p] = A;
+  }
   for (let g = 0; g < corpus.numGroups; g++) {
     const t0 = docOffsets[groupDocOffsets[g]];
     const t1 = docOffsets[groupDocOffsets[g + 1]];
-    ngk.fill(0);
     for (let i = t0; i < t1; i++) ngk[z[i]]++;
     const off = groupPattern[g] * K;
-    let A = 0;
-    for (let k = 0; k < K; k++) A += alpha[off + k];
-    const inv = 1 / (t1 - t0 + A);
-    for (let k = 0; k < K; k++) {
-      const v = (ngk[k] + alpha[off + k]) * inv;
-      out[g * K + k] = v;
-      if (thetaSum) thetaSum[g * K + k] += v;
+    const inv = 1 / (t1 - t0 + alphaSum[groupPattern[g]]);
+    const row = g * K;
+    if (thetaSum) {
+      for (let k = 0; k < K; k++) {
+        const v = (ngk[k] + alpha[off + k]) * inv;
+        out[row + k] = v;
+        thetaSum[row + k] += v;
+      }
+    } else {
+      for (let k = 0; k < K; k++) out[row + k] = (ngk[k] + alpha[off + k]) * inv;
     }
+    for (let i = t0; i < t1; i++) ngk[z[i]] = 0;
   }
 }
 
