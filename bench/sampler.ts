@@ -4,15 +4,20 @@
 // --quick 8,000 groups) and for K ∈ {20, 100, 500}, measured side by side in one run from the
 // same random start:
 //   floor      tokens/s of the loop that only moves counts (bench/sampler/floor.ts)
-//   reference  tokens/s of the plain O(K) sampler; every sampler's tokens/s is taken over the
-//              second half of the `qualitySweeps` sweeps (steady state); the first half, from the
-//              random start, is reported as `firstHalf` and is inside time to quality
+//   reference  tokens/s of the plain O(K) sampler. Every sampler's tokens/s is taken, like the
+//              floor's, over consecutive sweeps with nothing in between, after its quality trace
+//              (converged state); the trace's own rates (likelihood evaluated between sweeps,
+//              which leaves caches cold) are reported as `betweenLikelihoodEvaluations`, and
+//              those of its first half, from the random start, as `firstHalf`
 //   fast1      tokens/s of the fast exact sampler (SparseLDA buckets) on one thread
 //   fastAll    tokens/s of the AD-LDA parallel sampler on every core
 //   time to quality: seconds until the joint log-likelihood per token first reaches the
 //              reference's mean over its last tenth of sweeps (sweeps 181–200; --quick: 23–25 of
 //              25, fewer sweeps so the run stays under two minutes), the same rule for every
-//              sampler, the reference included. Likelihood evaluation is not timed.
+//              sampler, the reference included. Likelihood evaluation is not timed. A chain that
+//              settles in a slightly lower mode never reaches it (null in JSON), so the time to
+//              99% of the reference's gain from the shared random start is printed beside it
+//              (timeToQuality99Ratio), with the level where each chain settled.
 //   bytesPerToken: bytes of fast-sampler state that grow with the tokens (z + word lists),
 //              divided by tokens; dense n_kw (vocabulary × K) is reported apart as tableBytes.
 //              bytesPerTokenAll: the same for the parallel sampler (a copy of the word lists per
@@ -52,8 +57,14 @@ export async function runBench(options: BenchOptions): Promise<Record<string, un
     timeToQualityRatio: rows.map((r) => r.ttqFast1 / r.ttqReference),
     timeToQualityRatioAll: rows.map((r) => r.ttqFastAll / r.ttqReference),
     timeToQualitySeconds: { reference: pick('ttqReference'), fast1: pick('ttqFast1'), fastAll: pick('ttqFastAll') },
+    // The softer target (99% of the reference's gain from the shared start; see measure.ts).
+    timeToQuality99Ratio: rows.map((r) => r.ttq99Fast1 / r.ttq99Reference),
+    timeToQuality99RatioAll: rows.map((r) => r.ttq99FastAll / r.ttq99Reference),
+    timeToQuality99Seconds: { reference: pick('ttq99Reference'), fast1: pick('ttq99Fast1'), fastAll: pick('ttq99FastAll') },
+    settledLogLikelihood: { reference: pick('plateauReference'), fast1: pick('plateauFast1'), fastAll: pick('plateauFastAll') },
     sweepsToQuality: { reference: qualitySweeps, fast1: pick('sweepsFast1'), fastAll: pick('sweepsFastAll') },
     firstHalf: { reference: pick('referenceEarly'), fast1: pick('fast1Early'), fastAll: pick('fastAllEarly') },
+    betweenLikelihoodEvaluations: { reference: pick('referenceTraced'), fast1: pick('fast1Traced'), fastAll: pick('fastAllTraced') },
     cpuTime: {
       floor: pick('floorCpu'),
       reference: pick('referenceCpu'),
@@ -80,6 +91,13 @@ export async function runBench(options: BenchOptions): Promise<Record<string, un
         `${r.bytesPerToken.toFixed(2).padStart(11)}  ${('(' + r.bytesPerTokenAll.toFixed(2) + ')').padStart(11)}`,
     );
   });
+  log('time to 99% of the reference\'s gain from the random start (chains can settle in different modes; measure.ts):');
+  rows.forEach((r) =>
+    log(
+      `K=${r.K}: reference ${r.ttq99Reference.toFixed(2)} s, fast1 ${r.ttq99Fast1.toFixed(2)} s (${(r.ttq99Fast1 / r.ttq99Reference).toFixed(3)}), fastAll ${r.ttq99FastAll.toFixed(2)} s (${(r.ttq99FastAll / r.ttq99Reference).toFixed(3)}); ` +
+        `settled at ${r.plateauReference.toFixed(4)} / ${r.plateauFast1.toFixed(4)} / ${r.plateauFastAll.toFixed(4)}`,
+    ),
+  );
   log('per CPU second (single-threaded loops; robust when other programs share the cores):');
   rows.forEach((r) => log(`K=${r.K}: floor ${(r.floorCpu / 1e6).toFixed(2)} M, reference ${(r.referenceCpu / 1e6).toFixed(2)} M, fast1 ${(r.fast1Cpu / 1e6).toFixed(2)} M tokens/CPU-s; fast/ref ${(r.fast1Cpu / r.referenceCpu).toFixed(2)}, fast/floor ${(r.fast1Cpu / r.floorCpu).toFixed(2)}`));
   log(`peak RSS: ${(result.peakRssMB as number).toFixed(0)} MB`);

@@ -16,12 +16,24 @@ export interface KFigures {
   reference: number;
   fast1: number;
   fastAll: number;
+  /** Tokens/s over the quality trace's second half, with the likelihood evaluated between sweeps. */
+  referenceTraced: number;
+  fast1Traced: number;
+  fastAllTraced: number;
   ttqReference: number;
   ttqFast1: number;
   ttqFastAll: number;
+  /** Seconds to 99% of the reference's gain in log-likelihood from the shared random start. */
+  ttq99Reference: number;
+  ttq99Fast1: number;
+  ttq99FastAll: number;
+  /** Mean log-likelihood per token of each chain's last tenth of its sweeps (where it settled). */
+  plateauReference: number;
+  plateauFast1: number;
+  plateauFastAll: number;
   sweepsFast1: number;
   sweepsFastAll: number;
-  /** Tokens per CPU second of the single-threaded loops (contention-robust companions). */
+  /** Tokens per CPU second of the single-threaded loops (contention-robust companions), hot. */
   floorCpu: number;
   /** Tokens/s over the first half of the sweeps (random start, dense counts). */
   referenceEarly: number;
@@ -116,6 +128,21 @@ function trace(b: BenchCorpus, sampler: Sampler, priors: Priors, sweeps: number,
     secondsToTarget, sweepsToTarget, lastLogLik: ll, logLiks, times };
 }
 
+/**
+ * Tokens per second (wall and process CPU) over `sweeps` consecutive sweeps with nothing in
+ * between, as the floor loop is measured: the quality trace evaluates the likelihood after every
+ * sweep, which leaves the next sweep's data out of cache and would understate every sampler.
+ */
+function hotRate(b: BenchCorpus, sampler: Sampler, sweeps: number): { wall: number; cpu: number } {
+  const N = b.corpus.words.length;
+  const rng = Xoshiro128.fromSeed(29);
+  const t = performance.now();
+  const c = process.cpuUsage();
+  for (let s = 0; s < sweeps; s++) sampler.sweep(rng);
+  const dc = process.cpuUsage(c);
+  return { wall: (N * sweeps) / ((performance.now() - t) / 1000), cpu: (N * sweeps) / ((dc.user + dc.system) / 1e6) };
+}
+
 export async function measureK(b: BenchCorpus, K: number, o: MeasureOptions): Promise<KFigures> {
   const { corpus } = b;
   const N = corpus.words.length;
@@ -138,6 +165,7 @@ export async function measureK(b: BenchCorpus, K: number, o: MeasureOptions): Pr
   // Reference: its likelihood at the last sweep is the quality target.
   const ref = createReferenceSampler(corpus, z0.slice(), priors);
   const refTrace = trace(b, ref, priors, o.qualitySweeps, Infinity, 11, o.qualitySweeps);
+  const refHot = hotRate(b, ref, o.floorSweeps);
   // Target: the reference's mean log-likelihood over its last tenth of sweeps (one sweep's value
   // is a noisy high or low; a chain on another random stream may never reach a lucky high).
   const tail = refTrace.logLiks.slice(-Math.max(1, Math.floor(o.qualitySweeps / 10)));
@@ -145,19 +173,35 @@ export async function measureK(b: BenchCorpus, K: number, o: MeasureOptions): Pr
   // The same rule for every sampler: first sweep whose likelihood reaches the target.
   const refFirst = refTrace.logLiks.findIndex((ll) => ll >= target);
   const ttqReference = refTrace.times[refFirst];
-  o.log(`K=${K} reference: ${(refTrace.tokensPerSecond / 1e6).toFixed(2)} M tokens/s; mean log-lik/token over its last ${tail.length} of ${o.qualitySweeps} sweeps = ${target.toFixed(4)}, first reached at sweep ${refFirst + 1} after ${ttqReference.toFixed(2)} s`);
+  // LDA's posterior has many modes (here: which of 60 planted topics share one of K = 20), and
+  // equally exact chains can settle a little apart; a chain that settles 0.1% below the
+  // reference's plateau never "reaches" it. So a second, softer target is also reported: 99% of
+  // the reference's gain from the shared random start (common practice; not from a paper).
+  const start = logJointLikelihood(b.corpus, z0, K, priors) / N;
+  const target99 = start + 0.99 * (target - start);
+  const firstReach = (tr: Trace, level: number) => {
+    const i = tr.logLiks.findIndex((ll) => ll >= level);
+    return i < 0 ? Infinity : tr.times[i];
+  };
+  const plateau = (tr: Trace) => {
+    const last = tr.logLiks.slice(-Math.max(1, Math.floor(tr.logLiks.length / 10)));
+    return last.reduce((a, v) => a + v, 0) / last.length;
+  };
+  o.log(`K=${K} reference: ${(refHot.wall / 1e6).toFixed(2)} M tokens/s (${(refTrace.tokensPerSecond / 1e6).toFixed(2)} M between likelihood evaluations); mean log-lik/token over its last ${tail.length} of ${o.qualitySweeps} sweeps = ${target.toFixed(4)}, first reached at sweep ${refFirst + 1} after ${ttqReference.toFixed(2)} s`);
 
-  const run = async (factory: SamplerFactory, label: string): Promise<Trace & { bytes: number; table: number }> => {
+  const run = async (factory: SamplerFactory, label: string): Promise<Trace & { bytes: number; table: number; hot: { wall: number; cpu: number } }> => {
     t = performance.now();
     const sampler = factory(corpus, z0.slice(), priors) as Sampler & { perTokenStateBytes?: () => number };
     const setup = (performance.now() - t) / 1000;
     try {
       const tr = trace(b, sampler, priors, o.qualitySweeps, target, 11);
+      const hot = hotRate(b, sampler, o.floorSweeps);
       o.log(
-        `K=${K} ${label}: ${(tr.tokensPerSecond / 1e6).toFixed(2)} M tokens/s; reached the target at sweep ${tr.sweepsToTarget} after ${tr.secondsToTarget.toFixed(2)} s (setup ${setup.toFixed(2)} s, not counted)`,
+        `K=${K} ${label}: ${(hot.wall / 1e6).toFixed(2)} M tokens/s (${(tr.tokensPerSecond / 1e6).toFixed(2)} M between likelihood evaluations); reached the target at sweep ${tr.sweepsToTarget} after ${tr.secondsToTarget.toFixed(2)} s, ` +
+          `99% of the reference's gain after ${firstReach(tr, target99).toFixed(2)} s (reference ${firstReach(refTrace, target99).toFixed(2)} s); settled at ${plateau(tr).toFixed(4)} (setup ${setup.toFixed(2)} s, not counted)`,
       );
       const bytes = sampler.perTokenStateBytes?.() ?? NaN;
-      return { ...tr, bytes, table: 0 };
+      return { ...tr, bytes, table: 0, hot };
     } finally {
       await sampler.dispose?.();
     }
@@ -172,14 +216,23 @@ export async function measureK(b: BenchCorpus, K: number, o: MeasureOptions): Pr
     referenceEarly: refTrace.earlyTokensPerSecond,
     fast1Early: fast.earlyTokensPerSecond,
     fastAllEarly: parallel.earlyTokensPerSecond,
-    referenceCpu: refTrace.tokensPerCpuSecond,
-    fast1Cpu: fast.tokensPerCpuSecond,
-    reference: refTrace.tokensPerSecond,
-    fast1: fast.tokensPerSecond,
-    fastAll: parallel.tokensPerSecond,
+    referenceCpu: refHot.cpu,
+    fast1Cpu: fast.hot.cpu,
+    reference: refHot.wall,
+    fast1: fast.hot.wall,
+    fastAll: parallel.hot.wall,
+    referenceTraced: refTrace.tokensPerSecond,
+    fast1Traced: fast.tokensPerSecond,
+    fastAllTraced: parallel.tokensPerSecond,
     ttqReference,
     ttqFast1: fast.secondsToTarget,
     ttqFastAll: parallel.secondsToTarget,
+    ttq99Reference: firstReach(refTrace, target99),
+    ttq99Fast1: firstReach(fast, target99),
+    ttq99FastAll: firstReach(parallel, target99),
+    plateauReference: plateau(refTrace),
+    plateauFast1: plateau(fast),
+    plateauFastAll: plateau(parallel),
     sweepsFast1: fast.sweepsToTarget,
     sweepsFastAll: parallel.sweepsToTarget,
     bytesPerToken: fast.bytes / N,

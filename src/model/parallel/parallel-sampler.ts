@@ -53,12 +53,14 @@ class ParallelSampler implements Sampler {
   private sweeps = 0;
   private groupLogLik = NaN;
   private released = false;
+  /** The assignments, in shared memory (a copy of the caller's z when that was not shared). */
+  readonly z: Uint16Array;
 
   constructor(
     private readonly pool: WorkerPool,
     private readonly release: (pool: WorkerPool) => Promise<void>,
     corpus: Corpus,
-    readonly z: Uint16Array,
+    z: Uint16Array,
     priors: Priors,
   ) {
     checkPriors(corpus, priors);
@@ -87,6 +89,7 @@ class ParallelSampler implements Sampler {
       track: new Int32Array(new SharedArrayBuffer(4)),
       groupLogLik: new Float64Array(new SharedArrayBuffer(8 * T)),
     };
+    this.z = this.job.z;
     this.state = new FastState(c, this.job.z, this.priorsView());
     this.scratch = createScratch(priors.K);
     this.pending = new PendingMerge(logs, pool.ctrlAll, 0);
@@ -109,7 +112,6 @@ class ParallelSampler implements Sampler {
     let sum = 0;
     for (let p = 0; p < pool.partitions; p++) sum += job.groupLogLik[p];
     this.groupLogLik = sum;
-    if (job.z !== this.z) this.z.set(job.z);
   }
 
   setPriors(priors: Priors): void {
@@ -149,7 +151,7 @@ class ParallelSampler implements Sampler {
   /** Bytes of state that grow with the tokens: z, pooled word lists of every copy, move logs. */
   perTokenStateBytes(): number {
     const logs = this.job.logs.flat().reduce((s, l) => s + l.byteLength, 0);
-    return this.z.byteLength + (this.job.z !== this.z ? this.job.z.byteLength : 0) + this.pool.partitions * this.state.perTokenBytes() + logs;
+    return this.z.byteLength + this.pool.partitions * this.state.perTokenBytes() + logs;
   }
 
   dispose(): Promise<void> {
