@@ -10,6 +10,7 @@ import { csvBytes } from './csv.js';
 import type { ExportedFile } from './export-run.js';
 import { alphaForCovariates, foldInDocuments } from './fold-in.js';
 import { decideLanguages, mapInputColumns, prepareDocuments, readInputTable } from './text-pipeline.js';
+import { createEncoder } from '../text/vocabulary/index.js';
 
 export interface ApplyOptions {
   bytes: Uint8Array;
@@ -48,12 +49,17 @@ export async function applyRun(bundle: RunBundle, options: ApplyOptions): Promis
     docs.map((d, i) => ({ language: decisions[i].language !== null && bundle.languages.includes(decisions[i].language!) ? decisions[i].language : null, text: d.text })),
     { ...bundle.pipeline, minCount: 1, maxDocShare: 1, minTokens: 1, collocationNpmi: null },
   );
-  const stemIds = bundle.vocabularies.map((v) => new Map(v.stems.map((s, i) => [s, i])));
+  // Words are matched to the run's vocabulary by the study's own encoder: same tokens, stop words
+  // and stems, and adjacent words joined where the run's vocabulary has their collocation.
+  const encoders = bundle.vocabularies.map((v, l) =>
+    createEncoder({ language: bundle.languages[l], stems: v.stems, surfaces: v.surfaces, counts: new Int32Array(0), docCounts: new Int32Array(0) }, bundle.pipeline),
+  );
   const K = bundle.K;
   const jobs: { doc: number; language: number; tokens: Int32Array }[] = [];
   let otherLanguage = 0;
   let totalWords = 0;
   let unknown = 0;
+  let noKnown = 0;
   const perLanguage: Record<string, number> = {};
   const excluded: Record<string, number> = {};
   prepared.documents.forEach((p, i) => {
@@ -70,17 +76,16 @@ export async function applyRun(bundle: RunBundle, options: ApplyOptions): Promis
       return;
     }
     perLanguage[vocab!.language] = (perLanguage[vocab!.language] ?? 0) + 1;
-    const tokens = Int32Array.from(p.tokens, (w) => stemIds[l].get(vocab!.stems[w]) ?? -1);
-    totalWords += tokens.length;
-    jobs.push({ doc: i, language: l, tokens });
+    const encoded = encoders[l](docs[i].text);
+    totalWords += encoded.tokens.length + encoded.unknown;
+    unknown += encoded.unknown;
+    if (encoded.tokens.length === 0) noKnown++;
+    else jobs.push({ doc: i, language: l, tokens: encoded.tokens });
   });
   const res = foldInDocuments(bundle.phi, K, jobs.map((j) => ({ language: j.language, tokens: j.tokens, alpha: alphaForCovariates(bundle.lambda, bundle.encoding, K, docs[j.doc].covariates) })), { sweeps: 50, burnIn: 20, seed: options.seed ?? 1 });
   const mixtures: (ArrayLike<number> | null)[] = new Array(docs.length).fill(null);
-  let noKnown = 0;
   jobs.forEach((j, i) => {
-    unknown += res.unknownWords[i];
-    if (res.unknownWords[i] >= j.tokens.length) noKnown++;
-    else mixtures[j.doc] = res.theta.subarray(i * K, (i + 1) * K);
+    mixtures[j.doc] = res.theta.subarray(i * K, (i + 1) * K);
   });
   const rows: AnswerRow[] = docs.map((d, i) => ({
     rowId: d.rowId,

@@ -5,7 +5,8 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { JobQueue } from '../../src/jobs/index.js';
 import { createApp, type RequestRateLimiter, type SignInThrottle } from '../../src/server/index.js';
-import { openStore, type Store } from '../../src/store/index.js';
+import type { UploadScanner } from '../../src/services/scan-upload.js';
+import { openStore, type ScryptCost, type Store } from '../../src/store/index.js';
 
 export const LOCAL_CSRF = 'local-token-for-tests-0123456789';
 
@@ -30,10 +31,15 @@ export interface MakeAppOptions {
    * own tests (test/server/request-limits.test.ts), and `startServer` always has them.
    */
   requestLimiter?: RequestRateLimiter;
+  /** Test-only scrypt cost for accounts made and checked through the app (default: production). */
+  passwordCost?: ScryptCost;
+  uploadScanner?: UploadScanner;
+  /** An existing data folder to open (default: a new temporary one). */
+  dir?: string;
 }
 
 export function makeApp(options: MakeAppOptions = {}): TestApp {
-  const dir = mkdtempSync(join(tmpdir(), 'themata-server-'));
+  const dir = options.dir ?? mkdtempSync(join(tmpdir(), 'themata-server-'));
   const store = openStore(dir);
   const queue = new JobQueue({ store, workerUrl: options.workerUrl, progressWriteMs: 0 });
   queue.start();
@@ -47,6 +53,8 @@ export function makeApp(options: MakeAppOptions = {}): TestApp {
     allowedHosts: options.allowedHosts,
     signInThrottle: options.signInThrottle,
     requestLimiter: options.requestLimiter ?? false,
+    passwordCost: options.passwordCost,
+    uploadScanner: options.uploadScanner,
   });
   return {
     app,

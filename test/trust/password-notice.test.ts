@@ -6,38 +6,22 @@
 // requests in, pages out, with the password changed on the Account page and by `themata users
 // password` on the command line. The workbench hashes at a low scrypt cost passed explicitly
 // (AppDeps.passwordCost) so the tests run quickly; the command line hashes at the real cost.
-import { mkdtempSync, rmSync } from 'node:fs';
+import { mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import Database from 'better-sqlite3';
 import { afterEach, describe, expect, it } from 'vitest';
-import { JobQueue } from '../../src/jobs/index.js';
-import { createApp } from '../../src/server/index.js';
-import { createAccount, DATABASE_FILE, hashPassword, migrate, MIGRATIONS, openStore, setPassword, takePasswordNotice, type ScryptCost } from '../../src/store/index.js';
+import { createAccount, DATABASE_FILE, hashPassword, migrate, MIGRATIONS, setPassword, takePasswordNotice, type ScryptCost } from '../../src/store/index.js';
 import { cli } from '../cli/cli-harness.js';
-import { HTML, postForm, type TestApp } from '../server/helpers.js';
+import { HTML, makeApp as makeTestApp, postForm, type TestApp } from '../server/helpers.js';
 
 const FAST: ScryptCost = { N: 1 << 10, r: 8, p: 1 }; // tests only
 const FIRST = 'gannet tarmac quorum lilac sextant';
 const SECOND = 'heron gravel sonnet walnut lantern';
 const NOTICE = /<div id="password-notice">([\s\S]*?)<\/div>\s*<\/div>/;
 
-function makeApp(dir = mkdtempSync(join(tmpdir(), 'themata-password-notice-'))): TestApp {
-  const store = openStore(dir);
-  const queue = new JobQueue({ store, progressWriteMs: 0 });
-  queue.start();
-  const app = createApp({ store, queue, loopbackOnly: false, passwordCost: FAST, requestLimiter: false });
-  return {
-    app,
-    store,
-    queue,
-    dir,
-    async close() {
-      await queue.close();
-      store.close();
-      rmSync(dir, { recursive: true, force: true });
-    },
-  };
+function makeApp(dir?: string): TestApp {
+  return makeTestApp({ loopbackOnly: false, passwordCost: FAST, ...(dir ? { dir } : {}) });
 }
 
 const open: TestApp[] = [];

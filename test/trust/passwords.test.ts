@@ -4,15 +4,13 @@
 // from outside: requests in, responses out, the data folder looked at afterwards. The workbench is
 // built with a low scrypt cost passed explicitly (AppDeps.passwordCost), so these tests run
 // quickly; production never passes one (test/store/password.test.ts proves the real cost).
-import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { JobQueue } from '../../src/jobs/index.js';
-import { createApp, SignInThrottle } from '../../src/server/index.js';
-import { checkPassword, createAccount, isCommonPassword, openStore, passwordProblem, setPassword, type ScryptCost } from '../../src/store/index.js';
-import { HTML, postForm, type TestApp } from '../server/helpers.js';
+import { SignInThrottle } from '../../src/server/index.js';
+import { checkPassword, createAccount, isCommonPassword, passwordProblem, setPassword, type ScryptCost } from '../../src/store/index.js';
+import { HTML, LOCAL_CSRF, makeApp, postForm, type TestApp } from '../server/helpers.js';
 
 const ROOT = join(import.meta.dirname, '..', '..');
 const FAST: ScryptCost = { N: 1 << 10, r: 8, p: 1 }; // tests only
@@ -21,22 +19,7 @@ const PASSWORD = 'a long enough password';
 const PASSPHRASE = 'gannet tarmac quorum lilac sextant';
 
 function makeFastApp(signInThrottle?: SignInThrottle): TestApp {
-  const dir = mkdtempSync(join(tmpdir(), 'themata-passwords-'));
-  const store = openStore(dir);
-  const queue = new JobQueue({ store, progressWriteMs: 0 });
-  queue.start();
-  const app = createApp({ store, queue, loopbackOnly: false, passwordCost: FAST, signInThrottle });
-  return {
-    app,
-    store,
-    queue,
-    dir,
-    async close() {
-      await queue.close();
-      store.close();
-      rmSync(dir, { recursive: true, force: true });
-    },
-  };
+  return makeApp({ loopbackOnly: false, passwordCost: FAST, signInThrottle });
 }
 
 function cookieToken(res: Response): string {
@@ -156,10 +139,8 @@ describe('changing your own password in the workbench (ASVS V2.1.5, V2.1.6)', ()
   });
 
   it('in local use (no accounts) the Account page says there is no password to change, and the form is refused', async () => {
-    const dir = mkdtempSync(join(tmpdir(), 'themata-passwords-local-'));
-    const store = openStore(dir);
-    const queue = new JobQueue({ store, progressWriteMs: 0 });
-    const app = createApp({ store, queue, loopbackOnly: true, localCsrf: 'local-csrf-token-for-this-test', passwordCost: FAST });
+    const t = makeApp({ loopbackOnly: true, passwordCost: FAST });
+    const { app } = t;
     try {
       const page = await (await app.request('/account', { headers: HTML })).text();
       expect(page).toContain('there is no password to change');
@@ -168,14 +149,12 @@ describe('changing your own password in the workbench (ASVS V2.1.5, V2.1.6)', ()
       const res = await app.request('/account/password', {
         method: 'POST',
         headers: { 'Content-Type': 'application/x-www-form-urlencoded' },
-        body: new URLSearchParams({ _csrf: 'local-csrf-token-for-this-test', current: 'anything at all', password: PASSPHRASE, repeat: PASSPHRASE }),
+        body: new URLSearchParams({ _csrf: LOCAL_CSRF, current: 'anything at all', password: PASSPHRASE, repeat: PASSPHRASE }),
       });
       expect(res.status).toBe(400);
       expect(await res.text()).toContain('so there is no password to change');
     } finally {
-      await queue.close();
-      store.close();
-      rmSync(dir, { recursive: true, force: true });
+      await t.close();
     }
   });
 

@@ -7,14 +7,13 @@ import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { JobQueue } from '../../src/jobs/index.js';
-import { createApp, startServer } from '../../src/server/index.js';
+import { startServer } from '../../src/server/index.js';
 import { parseScanCommand, scannerFromSetting, scanUpload, type UploadScanner } from '../../src/services/scan-upload.js';
 import { createStudy, listStudies, openStore, type Store } from '../../src/store/index.js';
 import { InputError } from '../../src/text/types.js';
 import { cli } from '../cli/cli-harness.js';
 import { FIXTURE_FLAGS, surveyCsv, surveyRows } from '../services/survey-fixture.js';
-import { idFrom, inventedSurvey, LOCAL_CSRF, postFile, postForm, type TestApp } from '../server/helpers.js';
+import { idFrom, inventedSurvey, LOCAL_CSRF, makeApp, postFile, postForm, type TestApp } from '../server/helpers.js';
 
 const FAKE = join(import.meta.dirname, '..', 'fixtures', 'scan', 'fake-scanner.mjs');
 const EICAR = ['X5O!P%@AP[4\\PZX54(P^)7CC)7}$', 'EICAR-STANDARD-ANTIVIRUS-', 'TEST-FILE!H+H*'].join('');
@@ -28,21 +27,7 @@ function count(store: Store, table: 'imports' | 'documents'): number {
 }
 
 function scanApp(uploadScanner: UploadScanner | undefined): TestApp {
-  const dir = mkdtempSync(join(tmpdir(), 'themata-scan-'));
-  const store = openStore(dir);
-  const queue = new JobQueue({ store });
-  const app = createApp({ store, queue, loopbackOnly: true, localCsrf: LOCAL_CSRF, requestLimiter: false, uploadScanner });
-  return {
-    app,
-    store,
-    queue,
-    dir,
-    async close() {
-      await queue.close();
-      store.close();
-      rmSync(dir, { recursive: true, force: true });
-    },
-  };
+  return makeApp({ loopbackOnly: true, uploadScanner });
 }
 
 async function newStudy(t: TestApp, name: string): Promise<number> {
