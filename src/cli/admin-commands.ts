@@ -1,4 +1,5 @@
 // users and serve.
+import { readFileSync } from 'node:fs';
 import type { Command } from 'commander';
 import { ensureDemoStudy } from '../services/index.js';
 import { describeScanning, scannerFromSetting } from '../services/scan-upload.js';
@@ -14,10 +15,11 @@ interface ServerModule {
     dataDir: string;
     demo: boolean;
     secureCookies?: boolean;
+    tls?: TlsFlagFiles;
     allowedHosts?: readonly string[];
     requestLimits?: unknown;
     uploadScanner?: unknown;
-  }): Promise<{ url: string; close(): Promise<void> }>;
+  }): Promise<{ url: string; certificateValidTo?: Date; close(): Promise<void> }>;
   requestLimitsFor(perSecond: number): unknown;
 }
 
@@ -26,9 +28,19 @@ interface ServeFlags {
   port?: string;
   demo?: boolean;
   secureCookies?: boolean;
+  tlsCert?: string;
+  tlsKey?: string;
   allowedHosts?: string;
   requestsPerSecond?: string;
   scanCommand?: string;
+}
+
+/** What `--tls-cert` and `--tls-key` name, read (the server's `TlsFiles`). */
+interface TlsFlagFiles {
+  cert: Buffer;
+  key: Buffer;
+  certFile: string;
+  keyFile: string;
 }
 
 export function registerAdminCommands(program: Command, ctx: CliContext): void {
@@ -64,7 +76,12 @@ export function registerAdminCommands(program: Command, ctx: CliContext): void {
       const store = ctx.openStore();
       const account = getAccountByName(store, name);
       if (!account) throw new InputError(`There is no account named "${name.trim()}". Add it with themata users add NAME.`);
-      const ended = setPassword(store, account.id, password);
+      let ended: number;
+      try {
+        ended = setPassword(store, account.id, password);
+      } catch (e) {
+        throw new InputError((e as Error).message);
+      }
       ctx.out(`Changed the password of "${account.name}"; ${ended === 1 ? '1 session was' : `${ended} sessions were`} signed out.`);
       // OWASP ASVS 4.0.3 V2.2.3, V2.5.5: the workbench tells the account at its next sign-in.
       ctx.out('The account will be told of this change, made by the server\'s operator, when it next signs in to the workbench.');
@@ -82,6 +99,11 @@ export function registerAdminCommands(program: Command, ctx: CliContext): void {
     )
     .option('--no-secure-cookies', 'send the session cookie over plain HTTP too, whatever THEMATA_SECURE_COOKIES says')
     .option(
+      '--tls-cert <file>',
+      'serve HTTPS (TLS 1.2 and 1.3) with this PEM certificate, followed by any intermediate certificates; needs --tls-key, and turns on the secure cookie',
+    )
+    .option('--tls-key <file>', 'the unencrypted PEM private key of --tls-cert (keep the file readable by the server\'s user only)')
+    .option(
       '--allowed-hosts <names>',
       'host names the server answers to besides its own, separated by commas, e.g. the name a TLS proxy passes on (overrides THEMATA_ALLOWED_HOSTS)',
     )
@@ -91,7 +113,9 @@ export function registerAdminCommands(program: Command, ctx: CliContext): void {
       'after',
       `
 Behind a TLS proxy that forwards https://themata.lab.example.org:
-  themata serve --host 127.0.0.1 --secure-cookies --allowed-hosts themata.lab.example.org`,
+  themata serve --host 127.0.0.1 --secure-cookies --allowed-hosts themata.lab.example.org
+Without a proxy, serving HTTPS itself (renew the certificate yourself; Themata does not):
+  themata serve --host 0.0.0.0 --port 443 --tls-cert /etc/themata/cert.pem --tls-key /etc/themata/key.pem`,
     )
     .action(async (flags: ServeFlags) => {
       const port = flags.port === undefined ? undefined : Number(flags.port);
@@ -101,6 +125,7 @@ Behind a TLS proxy that forwards https://themata.lab.example.org:
       if (rate !== undefined && !(Number.isFinite(rate) && rate >= 1)) {
         throw new InputError(`--requests-per-second needs a number of at least 1 (got "${flags.requestsPerSecond}").`);
       }
+      const tls = readTlsFlags(flags);
       const scanner = scannerFromSetting(flags.scanCommand, process.env);
       let server: ServerModule | undefined;
       try {
@@ -127,6 +152,7 @@ Behind a TLS proxy that forwards https://themata.lab.example.org:
           dataDir: ctx.dataDir,
           demo: !!flags.demo,
           ...(flags.secureCookies !== undefined ? { secureCookies: flags.secureCookies } : {}),
+          ...(tls !== undefined ? { tls } : {}),
           ...(allowedHosts !== undefined ? { allowedHosts } : {}),
           ...(rate !== undefined ? { requestLimits: server.requestLimitsFor(rate) } : {}),
           ...(scanner !== undefined ? { uploadScanner: scanner } : {}),
@@ -139,11 +165,51 @@ Behind a TLS proxy that forwards https://themata.lab.example.org:
         throw e;
       }
       ctx.out(`Themata is serving at ${running.url} (data folder ${ctx.dataDir}). Press Ctrl+C to stop.`);
+      if (running.certificateValidTo) {
+        ctx.out(
+          `The TLS certificate is valid until ${running.certificateValidTo.toISOString().slice(0, 10)}. ` +
+            'Themata does not renew it: put a new certificate in place and restart before then.',
+        );
+      }
       ctx.out(describeScanning(scanner));
       const stop = () => void running.close().then(() => process.exit(0));
       process.once('SIGINT', stop);
       process.once('SIGTERM', stop);
     });
+}
+
+/**
+ * `--tls-cert` and `--tls-key`: both or neither, each a file this process can read. The paths are
+ * the operator's, from the command line; what the files hold is checked by the server
+ * (`checkTlsFiles`) before it listens.
+ */
+function readTlsFlags(flags: ServeFlags): TlsFlagFiles | undefined {
+  if (flags.tlsCert === undefined && flags.tlsKey === undefined) return undefined;
+  if (flags.tlsKey === undefined) {
+    throw new InputError('--tls-cert needs --tls-key as well: give both the certificate file and its private key file (PEM), or neither to serve plain HTTP.');
+  }
+  if (flags.tlsCert === undefined) {
+    throw new InputError('--tls-key needs --tls-cert as well: give both the certificate file and its private key file (PEM), or neither to serve plain HTTP.');
+  }
+  if (flags.secureCookies === false) {
+    throw new InputError('--no-secure-cookies cannot be used with --tls-cert: over HTTPS the session cookie is always Secure.');
+  }
+  return {
+    cert: readFlagFile(flags.tlsCert, 'TLS certificate', '--tls-cert'),
+    key: readFlagFile(flags.tlsKey, 'TLS key', '--tls-key'),
+    certFile: flags.tlsCert,
+    keyFile: flags.tlsKey,
+  };
+}
+
+function readFlagFile(file: string, what: string, flag: string): Buffer {
+  try {
+    return readFileSync(file);
+  } catch (e) {
+    const code = (e as NodeJS.ErrnoException).code;
+    const why = code === 'ENOENT' ? 'there is no such file' : code === 'EACCES' || code === 'EPERM' ? 'permission denied' : code === 'EISDIR' ? 'it is a folder' : (code ?? 'unreadable');
+    throw new InputError(`Cannot read the ${what} file "${file}" given with ${flag} (${why}).`);
+  }
 }
 
 /**

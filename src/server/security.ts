@@ -1,8 +1,9 @@
 // Secure response headers. The content security policy allows scripts, styles and images only
 // from this server (no inline script or style: htmx is configured not to inject its indicator
 // style), and no framing (OWASP ASVS 4.0.3, V14.4 "HTTP Security Headers").
-import type { MiddlewareHandler } from 'hono';
+import type { Context, MiddlewareHandler } from 'hono';
 import { secureHeaders } from 'hono/secure-headers';
+import type { AppEnv } from './types.js';
 
 export const CONTENT_SECURITY_POLICY = {
   defaultSrc: ["'self'"],
@@ -17,13 +18,34 @@ export const CONTENT_SECURITY_POLICY = {
   frameAncestors: ["'none'"],
 };
 
-export function securityHeaders() {
-  return secureHeaders({
+/** One year (common practice), without `includeSubDomains`: other names under the lab's domain
+ * are not Themata's to commit to HTTPS (OWASP ASVS 4.0.3 V14.4.5). */
+export const STRICT_TRANSPORT_SECURITY = 'max-age=31536000';
+
+/**
+ * Does this response reach the browser over HTTPS? Either Themata serves TLS itself (the socket
+ * @hono/node-server passes on as `incoming` is encrypted; the request line cannot fake that, unlike
+ * the URL's scheme), or the operator declared a TLS proxy in front by turning on secure cookies.
+ */
+export function servedOverHttps(c: Context<AppEnv>): boolean {
+  const bindings = c.env as { incoming?: { socket?: { encrypted?: boolean } } } | undefined;
+  return bindings?.incoming?.socket?.encrypted === true || c.get('deps')?.secureCookies === true;
+}
+
+export function securityHeaders(): MiddlewareHandler<AppEnv> {
+  const headers = secureHeaders({
     contentSecurityPolicy: CONTENT_SECURITY_POLICY,
     referrerPolicy: 'same-origin',
     xFrameOptions: 'DENY',
     crossOriginEmbedderPolicy: false,
+    strictTransportSecurity: false,
   });
+  return async (c, next) => {
+    await headers(c, next);
+    // RFC 6797 (HTTP Strict Transport Security) §7.2: a host must not send the header over plain
+    // HTTP, so it goes on HTTPS responses only.
+    if (servedOverHttps(c)) c.res.headers.set('Strict-Transport-Security', STRICT_TRANSPORT_SECURITY);
+  };
 }
 
 /** Every response that does not choose its own caching is `no-store`: pages and downloads show

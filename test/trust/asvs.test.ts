@@ -170,8 +170,11 @@ describe('headers, errors and files (ASVS V4.3, V7, V12, V14)', () => {
   afterAll(() => t.close());
 
   it('V14.3.3, V14.4.1, V14.4.5, V14.4.6: pages name their charset, carry HSTS and a referrer policy, and no version banner', async () => {
+    // HSTS goes on HTTPS responses only (RFC 6797 §7.2): the requests come as @hono/node-server
+    // passes one that arrived over TLS (test/trust/tls.test.ts does it with a real server).
+    const overTls = { incoming: { socket: { encrypted: true } } };
     for (const path of ['/', '/login', '/nowhere', `/studies/${studyId}/data`]) {
-      const res = await t.app.request(path, { headers: HTML });
+      const res = await t.app.request(path, { headers: HTML }, overTls);
       expect(res.headers.get('Content-Type'), path).toMatch(/^text\/html; charset=utf-8$/i);
       expect(res.headers.get('Strict-Transport-Security'), path).toMatch(/max-age=\d{7,}/);
       expect(res.headers.get('Referrer-Policy'), path).toBe('same-origin');
@@ -328,8 +331,15 @@ describe('the source itself (ASVS V5.2.4, V5.2.6, V5.3.8, V8.2.2, V14.2)', () =>
   });
 
   it('V5.2.6, V12.6.1, V8.2.2: the program makes no outbound requests and keeps nothing in browser storage', () => {
-    const outbound = sources.filter(({ text }) => /\bfetch\s*\(|node:https?['"]|from\s+['"]https?['"]|\bundici\b|XMLHttpRequest|WebSocket\(/.test(text)).map(({ f }) => f);
+    // node:https is allowed in the server's start module only, and there only its createServer,
+    // to serve HTTPS (V9.1); no module may use it, node:http or anything else to make requests.
+    const isStart = (f: string) => f.replace(/\\/g, '/').endsWith('src/server/start.ts');
+    const outbound = sources
+      .filter(({ f, text }) => /\bfetch\s*\(|node:http['"]|from\s+['"]https?['"]|\bundici\b|XMLHttpRequest|WebSocket\(/.test(text) || (!isStart(f) && /node:https['"]/.test(text)))
+      .map(({ f }) => f);
     expect(outbound).toEqual([]);
+    const start = sources.find(({ f }) => isStart(f))!.text;
+    expect(start.match(/^.*node:https['"].*$/gm)).toEqual(["import { createServer as createHttpsServer } from 'node:https';"]);
     const storage = sources.filter(({ text }) => /localStorage|sessionStorage|indexedDB|document\.cookie/.test(text)).map(({ f }) => f);
     expect(storage).toEqual([]);
   });
