@@ -24,7 +24,7 @@ import { csvBytes, round6, toCsv } from '../services/csv.js';
 import { getRun, getRunByName, getStudy, interruptIfAbandoned, setRunProgress, setRunStatus, touchRunHeartbeat, type Run, type Store } from '../store/index.js';
 import { InputError } from '../text/types.js';
 import { scannerFromSetting, scanUpload } from '../services/scan-upload.js';
-import { reportRemoval } from './study-commands.js';
+import { removalOptions, reportRemoval } from './study-commands.js';
 import { collect, mappingFromFlags, mappingOptions, parseNumber, readInputFile, type CliContext, type MappingFlags } from './context.js';
 
 /** The finished run `name` of `study`, loaded; InputError when missing or unfinished. */
@@ -263,13 +263,13 @@ export function registerRunCommands(program: Command, ctx: CliContext): void {
       ctx.err(`${found.length} of ${res.differences.length} level differences stand out after false-discovery control (Benjamini & Hochberg, 5%). Differences are associations in this sample, not causes.`);
     });
 
-  program
-    .command('remove-run')
-    .description('delete a run with its checkpoints, results, theme labels and exported files (without --yes: only say what would go)')
-    .requiredOption('--study <name>', 'study name')
-    .requiredOption('--run <name>', 'run name')
-    .option('--yes', 'really delete')
-    .option('--vacuum', 'afterwards rewrite the data file so no free page keeps deleted bytes')
+  removalOptions(
+    program
+      .command('remove-run')
+      .description('delete a run with its checkpoints, results, theme labels and exported files (without --yes: only say what would go)')
+      .requiredOption('--study <name>', 'study name')
+      .requiredOption('--run <name>', 'run name')
+  )
     .action(async (flags: { study: string; run: string; yes?: boolean; vacuum?: boolean }) => {
       const store = ctx.openStore();
       const s = requireStudy(store, flags.study);

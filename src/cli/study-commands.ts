@@ -22,6 +22,13 @@ export function describeImport(s: ImportSummary): string[] {
   return lines;
 }
 
+/** The two options every remove-* command takes: --yes to delete, --vacuum to rewrite the file after. */
+export function removalOptions(command: Command): Command {
+  return command
+    .option('--yes', 'really delete')
+    .option('--vacuum', 'afterwards rewrite the data file so no free page keeps deleted bytes');
+}
+
 /** After a deletion: say what went; with --vacuum rewrite the data file so no free page keeps old bytes. */
 export function reportRemoval(ctx: CliContext, store: Store, outcome: RemovalOutcome, vacuum: boolean | undefined): void {
   ctx.out(outcome.message);
@@ -121,12 +128,12 @@ export function registerStudyCommands(program: Command, ctx: CliContext): void {
       topWords(store, study.id, lang, { limit: top }).forEach((w, i) => ctx.out([i + 1, w.surface, w.stem, w.count, w.docCount].join('\t')));
     });
 
-  program
-    .command('remove-study')
-    .description('delete a study with its files, answers, vocabulary, runs, results and memberships (without --yes: only say what would go)')
-    .requiredOption('--study <name>', 'study name')
-    .option('--yes', 'really delete')
-    .option('--vacuum', 'afterwards rewrite the data file so no free page keeps deleted bytes')
+  removalOptions(
+    program
+      .command('remove-study')
+      .description('delete a study with its files, answers, vocabulary, runs, results and memberships (without --yes: only say what would go)')
+      .requiredOption('--study <name>', 'study name')
+  )
     .action(async (flags: { study: string; yes?: boolean; vacuum?: boolean }) => {
       const store = ctx.openStore();
       const study = requireStudy(store, flags.study);
@@ -141,13 +148,13 @@ export function registerStudyCommands(program: Command, ctx: CliContext): void {
       reportRemoval(ctx, store, await removeStudy(store, study.id), flags.vacuum);
     });
 
-  program
-    .command('remove-import')
-    .description('delete one imported file and its answers from a study, refused while a run was fitted on them (without --yes: only say what would go)')
-    .requiredOption('--study <name>', 'study name')
-    .requiredOption('--import <file>', 'file name as imported, or its number')
-    .option('--yes', 'really delete')
-    .option('--vacuum', 'afterwards rewrite the data file so no free page keeps deleted bytes')
+  removalOptions(
+    program
+      .command('remove-import')
+      .description('delete one imported file and its answers from a study, refused while a run was fitted on them (without --yes: only say what would go)')
+      .requiredOption('--study <name>', 'study name')
+      .requiredOption('--import <file>', 'file name as imported, or its number')
+  )
     .action(async (flags: { study: string; import: string; yes?: boolean; vacuum?: boolean }) => {
       const store = ctx.openStore();
       const study = requireStudy(store, flags.study);
