@@ -20,7 +20,7 @@ import {
 } from '../store/index.js';
 import { InputError } from '../text/types.js';
 import type { FromWorker } from './messages.js';
-import { startTypeScriptWorker } from './worker-launch.js';
+import { startTypeScriptWorker } from '../platform/index.js';
 
 export type JobEvent =
   | { runId: number; kind: 'status'; status: RunStatus; error: string | null }

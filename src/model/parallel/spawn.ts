@@ -5,7 +5,7 @@
 // ESM loader (`tsx/esm/api` register(), resolved from this package) and then imports the worker
 // module by URL. Works the same under vitest and under `node --import tsx`.
 import { createRequire } from 'node:module';
-import { pathToFileURL } from 'node:url';
+import { fileURLToPath, pathToFileURL } from 'node:url';
 import { Worker, type WorkerOptions } from 'node:worker_threads';
 
 function tsxApiUrl(): string {
@@ -17,11 +17,19 @@ function tsxApiUrl(): string {
   }
 }
 
+/**
+ * The package's own tsconfig.json (for its JSX settings), not the one of the folder the process
+ * was started in (issue 13; src/platform/typescript-runtime.ts explains).
+ */
+function packageTsconfig(): string {
+  return fileURLToPath(new URL('../../../tsconfig.json', import.meta.url));
+}
+
 /** A worker running the module at `moduleUrl` (a .ts or .js file URL). */
 export function spawnTsWorker(moduleUrl: URL, options: Omit<WorkerOptions, 'eval'> = {}): Worker {
   const snippet = [
     `import(${JSON.stringify(tsxApiUrl())})`,
-    `.then((api) => { api.register(); return import(${JSON.stringify(moduleUrl.href)}); })`,
+    `.then((api) => { api.register({ tsconfig: ${JSON.stringify(packageTsconfig())} }); return import(${JSON.stringify(moduleUrl.href)}); })`,
     // A start-up failure is reported on workerData.port and, when workerData.ctrl exists, by
     // writing -1 into its slot 3 (protocol.ts DONE) so a main thread blocked on it wakes up.
     `.catch((error) => { const wd = require('node:worker_threads').workerData || {}; const text = String(error && error.stack || error);`,
