@@ -55,6 +55,16 @@ export function CsrfField(props: { csrf: string }) {
   return <input type="hidden" name="_csrf" value={props.csrf} />;
 }
 
+/** The icon in both forms, so the browser's own request for /favicon.ico is also answered. */
+export function IconLinks() {
+  return (
+    <>
+      <link rel="icon" href="/assets/favicon.svg" type="image/svg+xml" />
+      <link rel="icon" href="/favicon.ico" sizes="16x16" />
+    </>
+  );
+}
+
 export function Layout(props: PageFrame & { children: Child }) {
   const s = props.study;
   const r = props.run;
@@ -65,6 +75,7 @@ export function Layout(props: PageFrame & { children: Child }) {
         <meta name="viewport" content="width=device-width, initial-scale=1" />
         <meta name="htmx-config" content='{"includeIndicatorStyles":false,"allowEval":false,"allowScriptTags":false}' />
         <title>{props.title} · Themata</title>
+        <IconLinks />
         <link rel="stylesheet" href="/assets/app.css" />
         <script src="/assets/htmx.min.js" defer></script>
         <script src="/assets/htmx-sse.js" defer></script>

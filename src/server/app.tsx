@@ -5,7 +5,7 @@ import { bodyLimit } from 'hono/body-limit';
 import { HTTPException } from 'hono/http-exception';
 import { ErrorPage } from '../../views/pages/login.js';
 import { InputError } from '../text/types.js';
-import { assetRoutes } from './assets.js';
+import { assetRoutes, faviconRoute } from './assets.js';
 import { csrfMiddleware, sessionMiddleware } from './auth.js';
 import { renderPage } from './render.js';
 import { dataRoutes } from './routes/data.js';
@@ -48,6 +48,7 @@ export function createApp(given: AppDeps): Hono<AppEnv> {
     }),
   );
   app.route('/assets', assetRoutes());
+  app.route('/', faviconRoute());
   app.use('*', sessionMiddleware());
   app.use('*', requestRateLimit());
   app.use('*', csrfMiddleware());

@@ -1,9 +1,10 @@
 // Static assets, all served by Themata itself (nothing is fetched from outside): htmx and its SSE
-// extension from node_modules, and our own CSS and script from public/. Fixed names only: no
+// extension from node_modules, our own CSS, script and icon from public/, and /favicon.ico. Fixed names only: no
 // request path is ever used to build a file path.
 import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { Hono } from 'hono';
+import { faviconIco } from './favicon.js';
 
 const require = createRequire(import.meta.url);
 const publicDir = new URL('../../public/', import.meta.url);
@@ -14,6 +15,7 @@ const FILES: Record<string, { load: () => Buffer; type: string }> = {
   'app.js': { load: () => readFileSync(new URL('app.js', publicDir)), type: 'text/javascript; charset=utf-8' },
   'password-meter.js': { load: () => readFileSync(new URL('password-meter.js', publicDir)), type: 'text/javascript; charset=utf-8' },
   'app.css': { load: () => readFileSync(new URL('app.css', publicDir)), type: 'text/css; charset=utf-8' },
+  'favicon.svg': { load: () => readFileSync(new URL('favicon.svg', publicDir)), type: 'image/svg+xml' },
 };
 
 const cache = new Map<string, Buffer>();
@@ -28,5 +30,16 @@ export function assetRoutes(): Hono {
     if (!bytes) cache.set(name, (bytes = file.load()));
     return c.body(new Uint8Array(bytes), 200, { 'Content-Type': file.type, 'Cache-Control': 'no-cache' });
   });
+  return app;
+}
+
+/**
+ * /favicon.ico, which browsers ask for on every page whatever the page links to. Public like the
+ * other assets (it is the same for everyone and says nothing about any study).
+ */
+export function faviconRoute(): Hono {
+  const app = new Hono();
+  let bytes: Uint8Array | undefined;
+  app.get('/favicon.ico', (c) => c.body((bytes ??= faviconIco()).slice(), 200, { 'Content-Type': 'image/x-icon', 'Cache-Control': 'max-age=86400' }));
   return app;
 }

@@ -1,3 +1,5 @@
+import { IconLinks } from '../layout.js';
+
 export function LoginPage(props: { error?: string; next?: string; name?: string }) {
   return (
     <html lang="en">
@@ -5,6 +7,7 @@ export function LoginPage(props: { error?: string; next?: string; name?: string 
         <meta charset="utf-8" />
         <meta name="viewport" content="width=device-width, initial-scale=1" />
         <title>Sign in · Themata</title>
+        <IconLinks />
         <link rel="stylesheet" href="/assets/app.css" />
         <script src="/assets/app.js" defer></script>
       </head>
@@ -36,6 +39,7 @@ export function ErrorPage(props: { status: number; message: string }) {
       <head>
         <meta charset="utf-8" />
         <title>{props.status === 404 ? 'Not found' : 'Something went wrong'} · Themata</title>
+        <IconLinks />
         <link rel="stylesheet" href="/assets/app.css" />
       </head>
       <body>
