@@ -147,6 +147,12 @@ export function DataPage(props: DataPageProps) {
   );
 }
 
+/**
+ * Columns in the preview of first rows: a screen's width; the mapping table lists every column,
+ * so the page stays within about a megabyte at the 1,000-column import limit (common practice).
+ */
+export const PREVIEW_COLUMNS = 30;
+
 export interface MappingColumn {
   readonly name: string;
   readonly role: string;
@@ -216,14 +222,17 @@ export function MappingPage(props: {
         <button type="submit">Import these answers</button>
       </form>
       <h2>First rows</h2>
+      {props.columns.length > PREVIEW_COLUMNS && (
+        <p class="hint" id="preview-columns">The first {PREVIEW_COLUMNS} of {count(props.columns.length)} columns; every column is listed above.</p>
+      )}
       <div class="scroll">
         <table class="list preview">
           <thead>
-            <tr>{props.columns.map((c) => <th scope="col">{c.name}</th>)}</tr>
+            <tr>{props.columns.slice(0, PREVIEW_COLUMNS).map((c) => <th scope="col">{c.name}</th>)}</tr>
           </thead>
           <tbody>
             {props.preview.map((r) => (
-              <tr>{r.map((v) => <td>{v.length > 120 ? `${v.slice(0, 117)}…` : v}</td>)}</tr>
+              <tr>{r.slice(0, PREVIEW_COLUMNS).map((v) => <td>{v.length > 120 ? `${v.slice(0, 117)}…` : v}</td>)}</tr>
             ))}
           </tbody>
         </table>

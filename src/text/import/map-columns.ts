@@ -11,20 +11,28 @@
 
 import { normalizeLanguageTag } from '../language-tags.js';
 import { InputError, type ColumnMapping, type MappedDocument, type Table } from '../types.js';
+import { clip, INPUT_LIMITS, listNames, type InputLimits } from './input-limits.js';
 import { parseNumber } from './parse-number.js';
 
 export interface MapColumnsOptions {
   /** The study's languages (any form normalizeLanguageTag accepts). */
   languages?: string[];
+  /** Bounds on answers (default INPUT_LIMITS). */
+  limits?: InputLimits;
 }
+
+/** Distinct unknown language values kept in the report (the rest are only counted). */
+const REPORTED_VALUES = 20;
 
 export interface MappingReport {
   readonly rows: number;
   readonly documents: number;
   /** Text cells skipped because they were empty or only white space. */
   readonly emptyTextCells: number;
-  /** Declared-language cells that are not a known tag or name: value, how often, first data row. */
+  /** Declared-language cells that are not a known tag or name: value (clipped), how often, first data row; the first 20 values. */
   readonly unknownLanguages: { value: string; count: number; firstRow: number }[];
+  /** Distinct unknown values beyond those listed. */
+  readonly moreUnknownLanguages: number;
   /** Valid declared languages that are not among the study's languages. */
   readonly outsideStudyLanguages: { language: string; count: number }[];
 }
@@ -41,12 +49,13 @@ export function mapColumns(table: Table, mapping: ColumnMapping, options: MapCol
 export function mapColumnsWithReport(table: Table, mapping: ColumnMapping, options: MapColumnsOptions = {}): MappedTable {
   const file = table.fileName;
   const col = columnIndexer(table);
+  const limits = options.limits ?? INPUT_LIMITS;
   if (mapping.text.length === 0) {
     throw new InputError(`${file}: choose at least one text column (the answers to analyse).`, file);
   }
   const twice = mapping.text.find((c, i) => mapping.text.indexOf(c) !== i);
   if (twice !== undefined) {
-    throw new InputError(`${file}: the column "${twice}" is chosen twice as a text column; choose it once.`, file, undefined, twice);
+    throw new InputError(`${file}: the column "${clip(twice)}" is chosen twice as a text column; choose it once.`, file, undefined, twice);
   }
   const textCols = mapping.text.map((c) => col(c, 'text'));
   const idCol = mapping.id === undefined ? -1 : col(mapping.id, 'id');
@@ -54,11 +63,13 @@ export function mapColumnsWithReport(table: Table, mapping: ColumnMapping, optio
   const linkCol = mapping.link === undefined ? -1 : col(mapping.link, 'link');
   const weightCol = mapping.weight === undefined ? -1 : col(mapping.weight, 'weight');
   const covariates = mapping.covariates.map((c) => ({ ...c, index: col(c.column, 'covariate') }));
+  col.throwIfMissing();
   const study = studyLanguages(options.languages, file);
 
   const problems = new ProblemLog(file);
   const seenIds = new Map<string, number>();
   const unknown = new Map<string, { count: number; firstRow: number }>();
+  const moreUnknown = new Set<string>();
   const outside = new Map<string, number>();
   const documents: MappedDocument[] = [];
   let emptyTextCells = 0;
@@ -72,15 +83,15 @@ export function mapColumnsWithReport(table: Table, mapping: ColumnMapping, optio
       rowId = row[idCol].trim();
       const first = seenIds.get(rowId);
       if (rowId === '') problems.add(mapping.id!, rowNo, 'the id is empty; every row needs an id');
-      else if (first !== undefined) problems.add(mapping.id!, rowNo, `id "${rowId}" is already used by data row ${first}; ids must be unique`);
+      else if (first !== undefined) problems.add(mapping.id!, rowNo, `id "${clip(rowId)}" is already used by data row ${first}; ids must be unique`);
       else seenIds.set(rowId, rowNo);
     }
     let weight = 1;
     if (weightCol >= 0) {
       const cell = row[weightCol];
       const parsed = parseNumber(cell);
-      if (!parsed.ok) problems.add(mapping.weight!, rowNo, `weight "${cell}" ${cell.trim() === '' ? 'is empty' : parsed.reason}; weights must be positive numbers`);
-      else if (!(parsed.value > 0)) problems.add(mapping.weight!, rowNo, `weight ${cell.trim()} is not positive; weights must be positive numbers`);
+      if (!parsed.ok) problems.add(mapping.weight!, rowNo, `weight "${clip(cell)}" ${cell.trim() === '' ? 'is empty' : parsed.reason}; weights must be positive numbers`);
+      else if (!(parsed.value > 0)) problems.add(mapping.weight!, rowNo, `weight ${clip(cell.trim())} is not positive; weights must be positive numbers`);
       else weight = parsed.value;
     }
     const values: Record<string, string | number | null> = {};
@@ -91,7 +102,7 @@ export function mapColumnsWithReport(table: Table, mapping: ColumnMapping, optio
       else {
         const parsed = parseNumber(cell);
         if (parsed.ok) values[c.column] = parsed.value;
-        else problems.add(c.column, rowNo, `"${cell}" ${parsed.reason}, but the column is a numeric covariate (map it as categorical, or fix the cell; empty cells are allowed)`);
+        else problems.add(c.column, rowNo, `"${clip(cell)}" ${parsed.reason}, but the column is a numeric covariate (map it as categorical, or fix the cell; empty cells are allowed)`);
       }
     }
     let declaredLanguage: string | undefined;
@@ -106,7 +117,8 @@ export function mapColumnsWithReport(table: Table, mapping: ColumnMapping, optio
         if (tag === null) {
           const u = unknown.get(cell) ?? { count: 0, firstRow: rowNo };
           u.count++;
-          unknown.set(cell, u);
+          if (u.count === 1 && unknown.size >= REPORTED_VALUES) moreUnknown.add(cell);
+          else unknown.set(cell, u);
         } else if (study !== null && !study.has(tag)) {
           outside.set(tag, (outside.get(tag) ?? 0) + 1);
         } else declaredLanguage = tag;
@@ -117,6 +129,14 @@ export function mapColumnsWithReport(table: Table, mapping: ColumnMapping, optio
       const text = row[textCols[t]].trim();
       if (text === '') {
         emptyTextCells++;
+        continue;
+      }
+      if (text.length > limits.maxAnswerChars) {
+        problems.add(
+          mapping.text[t],
+          rowNo,
+          `the answer is ${text.length.toLocaleString('en')} characters long, over the limit of ${limits.maxAnswerChars.toLocaleString('en')} for one answer (split it into several answers, or check that this is the answer column)`,
+        );
         continue;
       }
       documents.push({
@@ -138,25 +158,39 @@ export function mapColumnsWithReport(table: Table, mapping: ColumnMapping, optio
       rows: table.rows.length,
       documents: documents.length,
       emptyTextCells,
-      unknownLanguages: [...unknown].map(([value, u]) => ({ value, ...u })),
+      unknownLanguages: [...unknown].map(([value, u]) => ({ value: clip(value), ...u })),
+      moreUnknownLanguages: moreUnknown.size,
       outsideStudyLanguages: [...outside].map(([language, count]) => ({ language, count })),
     },
   };
 }
 
-function columnIndexer(table: Table): (name: string, role: string) => number {
+/**
+ * Finds mapped columns by name. Every column the mapping names but the file lacks is collected,
+ * and `throwIfMissing` names them all at once (with a bounded list of the file's columns).
+ */
+function columnIndexer(table: Table): ((name: string, role: string) => number) & { throwIfMissing(): void } {
   const index = new Map(table.columns.map((c, i) => [c, i] as const));
-  return (name, role) => {
+  const missing: { name: string; role: string }[] = [];
+  const find = (name: string, role: string): number => {
     const i = index.get(name);
     if (i !== undefined) return i;
-    const list = table.columns.map((c) => `"${c}"`).join(', ');
-    throw new InputError(
-      `${table.fileName}: there is no column "${name}" (chosen as ${role} column). The columns are: ${list}.`,
-      table.fileName,
-      undefined,
-      name,
-    );
+    missing.push({ name, role });
+    return -1;
   };
+  return Object.assign(find, {
+    throwIfMissing(): void {
+      if (missing.length === 0) return;
+      const what = missing.map((m) => `"${clip(m.name)}" (chosen as ${m.role} column)`);
+      const list = what.length > 12 ? `${what.slice(0, 12).join(', ')} … and ${what.length - 12} more` : what.join(', ');
+      throw new InputError(
+        `${table.fileName}: there ${missing.length === 1 ? 'is no column' : `are no columns`} ${list}. The columns are: ${listNames(table.columns)}.`,
+        table.fileName,
+        undefined,
+        missing[0].name,
+      );
+    },
+  });
 }
 
 function studyLanguages(languages: string[] | undefined, file: string): Set<string> | null {
@@ -185,6 +219,6 @@ class ProblemLog {
     if (this.first === null) return;
     const { column, row, message } = this.first;
     const more = this.others > 0 ? ` (${this.others} more row${this.others === 1 ? '' : 's'} of this column have a problem too)` : '';
-    throw new InputError(`${this.file}: data row ${row}, column "${column}": ${message}${more}.`, this.file, row, column);
+    throw new InputError(`${this.file}: data row ${row}, column "${clip(column)}": ${message}${more}.`, this.file, row, column);
   }
 }

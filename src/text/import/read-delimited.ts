@@ -9,6 +9,7 @@
 import { parse } from 'csv-parse/sync';
 import { InputError } from '../types.js';
 import { uniqueColumnNames } from './column-names.js';
+import { checkCell, checkColumnCount, checkHeader, clip, INPUT_LIMITS, type InputLimits } from './input-limits.js';
 import { sniffDelimiter, type Delimiter } from './sniff-delimiter.js';
 
 export interface DelimitedResult {
@@ -38,14 +39,41 @@ export function readDelimited(
   fileName: string,
   preferred: Delimiter,
   maxRows: number,
+  limits: InputLimits = INPUT_LIMITS,
 ): DelimitedResult {
   // Spreadsheet programs write and honour a first line "sep=;" naming the delimiter.
   const hint = /^sep=([,;\t|])(\r\n|\n|\r)/.exec(text);
   if (hint) text = text.slice(hint[0].length);
   const delimiter = hint ? (hint[1] as Delimiter) : sniffDelimiter(text, preferred);
+  // The header's width is counted before anything is parsed, so a file of 200,000 columns is
+  // refused in one pass over its first line.
+  const first = firstRecordWidth(text, delimiter, limits.maxRowChars);
+  checkColumnCount(first.width, fileName, first.complete ? 'the header' : `the header (in its first ${limits.maxRowChars.toLocaleString('en')} characters)`, limits);
   let records: string[][];
+  let header: string[] | null = null;
+  let dataRow = 0;
   try {
     records = parse(text, {
+      // Each record is checked as soon as it is read: the header's names, every cell's length,
+      // and extra empty cells dropped at once (a row of 100,000 trailing commas costs nothing).
+      on_record: (record: string[]) => {
+        if (header === null) {
+          checkHeader(record, fileName, limits);
+          header = record;
+          return record;
+        }
+        dataRow++;
+        let row = record;
+        if (row.length > header.length && row.length > limits.maxColumns) {
+          let end = row.length;
+          while (end > header.length && row[end - 1].trim() === '') end--;
+          row = row.slice(0, end);
+          checkColumnCount(row.length, fileName, `data row ${dataRow.toLocaleString('en')}`, limits);
+        }
+        for (let j = 0; j < row.length; j++) if (row[j].length > limits.maxCellChars) checkCell(row[j], fileName, dataRow, header[j] ?? `column ${j + 1}`, limits);
+        return row;
+      },
+      max_record_size: limits.maxRowChars,
       delimiter,
       quote: '"',
       escape: '"',
@@ -56,7 +84,8 @@ export function readDelimited(
       to: maxRows + 2,
     }) as string[][];
   } catch (err) {
-    throw csvError(err as CsvParseError, fileName);
+    if (err instanceof InputError) throw err;
+    throw csvError(err as CsvParseError, fileName, limits);
   }
   if (records.length === 0) {
     throw new InputError(`${fileName}: the file has no rows (it is empty or blank).`, fileName);
@@ -98,9 +127,17 @@ export function readDelimited(
   return { columns, rows, delimiter };
 }
 
-function csvError(err: CsvParseError, fileName: string): InputError {
+function csvError(err: CsvParseError, fileName: string, limits: InputLimits): InputError {
   const line = typeof err.lines === 'number' ? err.lines : undefined;
   const where = line === undefined ? '' : ` near line ${line}`;
+  if (err.code === 'CSV_MAX_RECORD_SIZE') {
+    return new InputError(
+      `${fileName}: a row${where} holds more than ${limits.maxRowChars.toLocaleString('en')} characters, the limit for one row ` +
+        `(and ${limits.maxCellChars.toLocaleString('en')} for one cell). Usually a double quote (") opens a cell and is never ` +
+        'closed, so the rest of the file is read as one cell: add the missing quote.',
+      fileName,
+    );
+  }
   if (err.code === 'CSV_QUOTE_NOT_CLOSED') {
     return new InputError(
       `${fileName}: a quoted cell is never closed${where}: a double quote (") opens it but no ` +
@@ -115,5 +152,38 @@ function csvError(err: CsvParseError, fileName: string): InputError {
       fileName,
     );
   }
-  return new InputError(`${fileName}: the file could not be read as delimited text${where} (${err.message}).`, fileName);
+  return new InputError(`${fileName}: the file could not be read as delimited text${where} (${clip(String(err.message), 200)}).`, fileName);
+}
+
+/**
+ * Cells in the first record (RFC 4180 quoting: delimiters and line breaks inside quotes do not
+ * count), looking at no more than `maxChars` characters.
+ */
+export function firstRecordWidth(text: string, delimiter: string, maxChars: number): { width: number; complete: boolean } {
+  const end = Math.min(text.length, maxChars);
+  const d = delimiter.charCodeAt(0);
+  let i = 0;
+  // Blank lines before the header are skipped by the parser too.
+  while (i < end && /\s/.test(text[i])) i++;
+  let width = 1;
+  let fieldStart = true;
+  for (; i < end; i++) {
+    const ch = text.charCodeAt(i);
+    if (fieldStart && ch === 34) {
+      // Quoted field (it may hold delimiters and line breaks); "" is a literal quote. A quote
+      // inside an unquoted field is literal (relax_quotes, as the parser reads it).
+      for (i++; i < end; i++) {
+        if (text.charCodeAt(i) === 34) {
+          if (text.charCodeAt(i + 1) === 34) i++;
+          else break;
+        }
+      }
+      fieldStart = false;
+    } else if (ch === d) {
+      width++;
+      fieldStart = true;
+    } else if (ch === 10 || ch === 13) return { width, complete: true };
+    else fieldStart = false;
+  }
+  return { width, complete: end === text.length };
 }

@@ -11,6 +11,7 @@ import { readDelimited } from './read-delimited.js';
 import { readJsonl } from './read-jsonl.js';
 import { readSav } from './read-sav.js';
 import { readXlsx } from './read-xlsx.js';
+import { checkCells, checkHeader } from './input-limits.js';
 import { formatBytes } from './zip-guard.js';
 
 export interface ReadTableOptions {
@@ -78,6 +79,9 @@ async function readByKind(
   }
   if (kind === 'sav') {
     const r = await readSav(buf, fileName, maxRows);
+    // The other readers check as they read; an SPSS file's variables are bounded the same way.
+    checkHeader(r.columns, fileName);
+    checkCells(r.rows, r.columns, fileName);
     return {
       fileName,
       format: 'sav',

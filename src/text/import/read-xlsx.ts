@@ -10,6 +10,7 @@
 import type ExcelJSModule from 'exceljs';
 import { InputError } from '../types.js';
 import { uniqueColumnNames } from './column-names.js';
+import { checkCell, checkColumnCount, checkHeader, INPUT_LIMITS, listNames, type InputLimits } from './input-limits.js';
 import { guardZip } from './zip-guard.js';
 
 export interface XlsxResult {
@@ -29,6 +30,7 @@ export async function readXlsx(
   fileName: string,
   sheetName: string | undefined,
   limits: XlsxLimits,
+  input: InputLimits = INPUT_LIMITS,
 ): Promise<XlsxResult> {
   guardZip(buf, fileName, limits.maxUnpackedBytes, limits.maxRows);
   // Loaded on first use: exceljs takes about a second to load, and most imports are CSV.
@@ -50,7 +52,7 @@ export async function readXlsx(
     sheetName === undefined ? workbook.worksheets[0] : workbook.worksheets.find((ws) => ws.name === sheetName);
   if (worksheet === undefined) {
     throw new InputError(
-      `${fileName}: there is no sheet named "${sheetName}". The sheets are: ${sheets.map((s) => `"${s}"`).join(', ')}.`,
+      `${fileName}: there is no sheet named "${sheetName}". The sheets are: ${listNames(sheets)}.`,
       fileName,
     );
   }
@@ -63,18 +65,23 @@ export async function readXlsx(
       fileName,
     );
   }
+  // The sheet's used range is known before any row is read: refuse a sheet too wide to map.
+  checkColumnCount(worksheet.columnCount, fileName, `sheet "${name}"`, input);
   const raw: string[][] = [];
   let width = 0;
+  let headerRow = 0;
   for (let r = 1; r <= last; r++) {
     const cells: string[] = [];
     worksheet.getRow(r).eachCell({ includeEmpty: false }, (cell, col) => {
       const text = cellText(cell.value);
+      if (text.length > input.maxCellChars) checkCell(text, fileName, headerRow ? r - headerRow : r, raw[headerRow - 1]?.[col - 1] ?? `column ${col}`, input);
       if (text !== '') {
         while (cells.length < col - 1) cells.push('');
         cells[col - 1] = text;
       }
     });
     raw.push(cells);
+    if (headerRow === 0 && cells.length > 0) headerRow = r;
     if (cells.length > width) width = cells.length;
   }
   const headerIndex = raw.findIndex((cells) => cells.length > 0);
@@ -84,6 +91,7 @@ export async function readXlsx(
   let end = raw.length;
   while (end > headerIndex + 1 && raw[end - 1].length === 0) end--;
   const header = pad(raw[headerIndex], width);
+  checkHeader(header, fileName, input);
   const rows = raw.slice(headerIndex + 1, end).map((cells) => pad(cells, width));
   if (rows.length === 0) {
     throw new InputError(`${fileName}: sheet "${name}" has a header row but no data rows.`, fileName);

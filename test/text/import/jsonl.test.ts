@@ -13,9 +13,17 @@ describe('JSON Lines', () => {
     ]);
   });
 
-  it('writes numbers and booleans as text, null as missing, nested values as JSON', async () => {
-    const t = await readText('{"n":2.5,"b":true,"z":null,"tags":["a","b"],"o":{"k":1}}\n', 'a.jsonl');
-    expect(t.rows).toEqual([['2.5', 'true', '', '["a","b"]', '{"k":1}']]);
+  it('writes numbers and booleans as text, null as missing', async () => {
+    const t = await readText('{"n":2.5,"b":true,"z":null}\n', 'a.jsonl');
+    expect(t.rows).toEqual([['2.5', 'true', '']]);
+  });
+
+  it('refuses a nested object or list, naming the line and the field', async () => {
+    const nested = await inputError(readText('{"id":1,"answer":"ok"}\n{"id":2,"answer":{"text":"hidden","lang":"en"}}\n', 'a.jsonl'));
+    expect(nested.message).toContain('a.jsonl: line 2, field "answer" holds a nested object');
+    expect(nested.column).toBe('answer');
+    const list = await inputError(readText('[{"id":1,"tags":["a","b"]}]', 'a.json'));
+    expect(list.message).toContain('item 1, field "tags" holds a list');
   });
 
   it('skips blank lines and accepts CRLF', async () => {
