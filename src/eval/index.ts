@@ -25,3 +25,14 @@ export { crossLanguageAlignment, chanceReciprocalRank, type AlignmentInput, type
 export { hungarian, assignRectangular, type Assignment } from './hungarian.js';
 export { themeCosineMatrix, matchThemes, stabilityAcrossRuns, type RunThemes, type ThemeMatching, type StabilityResult } from './stability.js';
 export { buildKComparison, meanCoherence, type KRunSummary, type KComparisonRow } from './k-comparison.js';
+export { relevance, relevantWords, suggestThemeLabels, type LabelSuggestion, type LabelSuggestionInput } from './label-suggestion.js';
+export {
+  themeAlignment,
+  wilsonLower,
+  wordThemeMixture,
+  type AlignmentStatus,
+  type LanguagePairAgreement,
+  type MatchedPair,
+  type ThemeAlignmentCell,
+  type ThemeAlignmentResult,
+} from './theme-alignment.js';
