@@ -2,6 +2,7 @@
 // to the store. Used by the command line, the workbench routes and the fit worker.
 export { importFile, type ImportOptions, type ImportSummary, type ImportProgress } from './import-file.js';
 export { rebuildVocabulary, type VocabularyRebuild } from './vocabulary.js';
+export { importGlossary, listGlossaries, glossaryTermsByLanguage, glossaryLinkKey, type GlossaryOptions, type GlossarySummary, type GlossaryListing } from './glossary.js';
 export {
   fitSettings,
   validateFit,

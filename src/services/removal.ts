@@ -233,8 +233,9 @@ export async function removeImport(store: Store, importId: number): Promise<Remo
     rebuildVocabulary(store, plan.study.id);
     return again.record.documents;
   });
+  const what = plan.record.kind === 'glossary' ? `the glossary's ${plural(value, 'term document')}` : plural(value, 'answer');
   return {
-    message: `Deleted ${plan.record.fileName} from study "${plan.study.name}": the original file and ${plural(value, 'answer')}; the study's vocabulary was rebuilt without them.`,
+    message: `Deleted ${plan.record.fileName} from study "${plan.study.name}": the original file and ${what}; the study's vocabulary was rebuilt without them.`,
     walTruncated,
   };
 }

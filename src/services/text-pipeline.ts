@@ -16,8 +16,9 @@ export async function readInputTable(bytes: Uint8Array, fileName: string, sheet?
   return readTable(bytes, fileName, sheet === undefined ? {} : { sheet });
 }
 
-export function mapInputColumns(table: Table, mapping: ColumnMapping, languages: string[]): MappedDocument[] {
-  const mapped = mapColumns(table, mapping, { languages }) as unknown;
+/** `keepEmpty`: empty text cells come back too, with text '' (an import keeps them as left out). */
+export function mapInputColumns(table: Table, mapping: ColumnMapping, languages: string[], keepEmpty = false): MappedDocument[] {
+  const mapped = mapColumns(table, mapping, { languages, keepEmpty }) as unknown;
   if (Array.isArray(mapped)) return mapped as MappedDocument[];
   return (mapped as { documents: MappedDocument[] }).documents;
 }
@@ -64,7 +65,7 @@ export function pipelineSettings(saved: unknown, extraStopWords: Record<string, 
 }
 
 export function prepareDocuments(
-  docs: { language: string | null; text: string }[],
+  docs: { language: string | null; text: string; reference?: boolean }[],
   settings: PipelineSettings,
   onProgress?: (done: number, total: number) => void,
 ): PreparedText {

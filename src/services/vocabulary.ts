@@ -45,17 +45,18 @@ export function studyStamp(store: Store, studyId: number | null): string {
 export function planVocabulary(
   store: Store,
   studyId: number | null,
-  added: readonly { language: string | null; text: string }[] = [],
+  added: readonly { language: string | null; text: string; reference?: boolean }[] = [],
   onProgress?: (done: number, total: number) => void,
 ): VocabularyPlan {
   const study = studyId === null ? undefined : getStudy(store, studyId);
   if (studyId !== null && !study) throw new Error(`No study with id ${studyId}.`);
   const stamp = studyStamp(store, studyId);
-  const docs = studyId === null ? { ids: new Int32Array(0), languages: [], texts: [] } : listDocumentTexts(store, studyId);
+  const docs = studyId === null ? { ids: new Int32Array(0), languages: [], texts: [], glossary: new Uint8Array(0) } : listDocumentTexts(store, studyId);
   const settings = pipelineSettings(study?.settings.pipeline, studyId === null ? {} : getStudyWordLists(store, studyId));
   const languages = [...docs.languages, ...added.map((d) => d.language)];
   const prepared = prepareDocuments(
-    [...docs.texts.map((text, i) => ({ language: docs.languages[i], text })), ...added],
+    // Glossary documents take the answers' word ids but do not shape the vocabulary (DESIGN §3).
+    [...docs.texts.map((text, i) => ({ language: docs.languages[i], text, reference: docs.glossary[i] === 1 })), ...added],
     settings,
     onProgress,
   );

@@ -110,7 +110,16 @@ export function setDocumentTokens(
   });
 }
 
+/**
+ * Documents that are answers: not the tiny documents of a glossary import (DESIGN §3), which
+ * the fit uses as link groups but no page, contrast, export or review counts as answers.
+ */
+const ANSWER_DOCUMENTS = "import_id NOT IN (SELECT id FROM imports WHERE kind = 'glossary')";
+const GLOSSARY_DOCUMENTS = "import_id IN (SELECT id FROM imports WHERE kind = 'glossary')";
+
 export interface DocumentFilter {
+  /** Default 'answers': glossary documents are left out unless asked for. */
+  kind?: 'answers' | 'glossary' | 'all';
   importId?: number;
   /** A language subtag, or null for undetermined documents. */
   language?: string | null;
@@ -132,6 +141,8 @@ const DISAGREES = 'declared_language IS NOT NULL AND ((written_language IS NOT N
 function whereClause(studyId: number, f: DocumentFilter): { sql: string; params: unknown[] } {
   const parts = ['study_id = ?'];
   const params: unknown[] = [studyId];
+  if ((f.kind ?? 'answers') === 'answers') parts.push(ANSWER_DOCUMENTS);
+  else if (f.kind === 'glossary') parts.push(GLOSSARY_DOCUMENTS);
   if (f.importId !== undefined) (parts.push('import_id = ?'), params.push(f.importId));
   if (f.language === null) parts.push('language IS NULL');
   else if (f.language !== undefined) (parts.push('language = ?'), params.push(f.language));
@@ -183,18 +194,23 @@ export function getDocument(store: Store, id: number): DocumentRecord | undefine
   return row ? toDocument(row) : undefined;
 }
 
-/** Id, decided language and text of every document of a study, in id order (the token step's input). */
-export function listDocumentTexts(store: Store, studyId: number): { ids: Int32Array; languages: (string | null)[]; texts: string[] } {
-  const rows = store.db.prepare('SELECT id, language, text FROM documents WHERE study_id = ? ORDER BY id').raw(true).all(studyId) as [number, string | null, string][];
+/**
+ * Id, decided language and text of every document of a study, in id order (the token step's
+ * input), and which are glossary documents (1: tokenized like answers, never counted as words).
+ */
+export function listDocumentTexts(store: Store, studyId: number): { ids: Int32Array; languages: (string | null)[]; texts: string[]; glossary: Uint8Array } {
+  const rows = store.db.prepare(`SELECT id, language, text, ${GLOSSARY_DOCUMENTS} FROM documents WHERE study_id = ? ORDER BY id`).raw(true).all(studyId) as [number, string | null, string, number][];
   const ids = new Int32Array(rows.length);
   const languages: (string | null)[] = new Array(rows.length);
   const texts: string[] = new Array(rows.length);
+  const glossary = new Uint8Array(rows.length);
   for (let i = 0; i < rows.length; i++) {
     ids[i] = rows[i][0];
     languages[i] = rows[i][1];
     texts[i] = rows[i][2];
+    glossary[i] = rows[i][3] ? 1 : 0;
   }
-  return { ids, languages, texts };
+  return { ids, languages, texts, glossary };
 }
 
 /** Included documents with tokens, in id order: the input of a fit. */
@@ -267,7 +283,7 @@ export function languageSummary(store: Store, studyId: number): LanguageSummaryR
       `SELECT language, language_source AS source, MIN(CAST(confidence * 10 AS INTEGER), 9) AS bin, COUNT(*) AS n,
          SUM(excluded IS NULL) AS included, SUM(confidence) AS conf,
          SUM(${DISAGREES}) AS disagree
-       FROM documents WHERE study_id = ? GROUP BY language, source, bin`,
+       FROM documents WHERE study_id = ? AND ${ANSWER_DOCUMENTS} GROUP BY language, source, bin`,
     )
     .all(studyId) as { language: string | null; source: LanguageSource; bin: number; n: number; included: number; conf: number; disagree: number }[];
   const byLang = new Map<string | null, { documents: number; included: number; bySource: Partial<Record<LanguageSource, number>>; conf: number; bins: number[]; disagreements: number }>();
@@ -294,11 +310,11 @@ export function languageSummary(store: Store, studyId: number): LanguageSummaryR
     .sort((a, b) => (a.language === null ? 1 : b.language === null ? -1 : b.documents - a.documents));
 }
 
-/** Counts of excluded documents per reason (of the whole study, or of one import). */
+/** Counts of excluded documents per reason (of the study's answers, or of one import). */
 export function exclusionSummary(store: Store, studyId: number, importId?: number): Record<string, number> {
   const rows = (
     importId === undefined
-      ? store.db.prepare('SELECT excluded, COUNT(*) AS n FROM documents WHERE study_id = ? AND excluded IS NOT NULL GROUP BY excluded').all(studyId)
+      ? store.db.prepare(`SELECT excluded, COUNT(*) AS n FROM documents WHERE study_id = ? AND ${ANSWER_DOCUMENTS} AND excluded IS NOT NULL GROUP BY excluded`).all(studyId)
       : store.db.prepare('SELECT excluded, COUNT(*) AS n FROM documents WHERE study_id = ? AND import_id = ? AND excluded IS NOT NULL GROUP BY excluded').all(studyId, importId)
   ) as { excluded: string; n: number }[];
   return Object.fromEntries(rows.map((r) => [r.excluded, r.n]));

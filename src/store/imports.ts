@@ -4,8 +4,12 @@ import { createHash } from 'node:crypto';
 import type { ColumnMapping, TableFormat } from '../text/types.js';
 import { inTransaction, now, type Store } from './database.js';
 
+/** What an import holds: answers, or a glossary (its rows are link groups of tiny documents, never answers). */
+export type ImportKind = 'answers' | 'glossary';
+
 export interface ImportRecord {
   readonly id: number;
+  readonly kind: ImportKind;
   readonly studyId: number;
   readonly fileName: string;
   readonly format: TableFormat;
@@ -21,6 +25,7 @@ export interface ImportRecord {
 
 interface ImportRow {
   id: number;
+  kind: ImportKind;
   study_id: number;
   file_name: string;
   format: TableFormat;
@@ -36,6 +41,7 @@ interface ImportRow {
 function toImport(row: ImportRow): ImportRecord {
   return {
     id: row.id,
+    kind: row.kind,
     studyId: row.study_id,
     fileName: row.file_name,
     format: row.format,
@@ -55,11 +61,11 @@ export function sha256Hex(bytes: Uint8Array): string {
 
 export function insertImport(
   store: Store,
-  input: { studyId: number; fileName: string; format: TableFormat; bytes: Uint8Array; encoding: string; mapping: ColumnMapping },
+  input: { studyId: number; fileName: string; format: TableFormat; bytes: Uint8Array; encoding: string; mapping: ColumnMapping; kind?: ImportKind },
 ): number {
   const info = store.db
-    .prepare('INSERT INTO imports (study_id, file_name, format, size, sha256, original, encoding, mapping, created_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)')
-    .run(input.studyId, input.fileName, input.format, input.bytes.byteLength, sha256Hex(input.bytes), Buffer.from(input.bytes), input.encoding, JSON.stringify(input.mapping), now());
+    .prepare('INSERT INTO imports (study_id, kind, file_name, format, size, sha256, original, encoding, mapping, created_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)')
+    .run(input.studyId, input.kind ?? 'answers', input.fileName, input.format, input.bytes.byteLength, sha256Hex(input.bytes), Buffer.from(input.bytes), input.encoding, JSON.stringify(input.mapping), now());
   return Number(info.lastInsertRowid);
 }
 
@@ -67,11 +73,15 @@ export function setImportSummary(store: Store, importId: number, summary: object
   store.db.prepare('UPDATE imports SET summary = ? WHERE id = ?').run(JSON.stringify(summary), importId);
 }
 
-const SELECT = `SELECT i.id, i.study_id, i.file_name, i.format, i.size, i.sha256, i.encoding, i.mapping, i.summary, i.created_at,
+const SELECT = `SELECT i.id, i.kind, i.study_id, i.file_name, i.format, i.size, i.sha256, i.encoding, i.mapping, i.summary, i.created_at,
   (SELECT COUNT(*) FROM documents d WHERE d.import_id = i.id) AS documents FROM imports i`;
 
-export function listImports(store: Store, studyId: number): ImportRecord[] {
-  return (store.db.prepare(`${SELECT} WHERE i.study_id = ? ORDER BY i.id`).all(studyId) as ImportRow[]).map(toImport);
+/** Every import of a study (answers and glossaries; see `kind`), in import order. */
+export function listImports(store: Store, studyId: number, kind?: ImportKind): ImportRecord[] {
+  const rows = kind === undefined
+    ? store.db.prepare(`${SELECT} WHERE i.study_id = ? ORDER BY i.id`).all(studyId)
+    : store.db.prepare(`${SELECT} WHERE i.study_id = ? AND i.kind = ? ORDER BY i.id`).all(studyId, kind);
+  return (rows as ImportRow[]).map(toImport);
 }
 
 export function getImport(store: Store, importId: number): ImportRecord | undefined {

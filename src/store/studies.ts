@@ -65,7 +65,7 @@ export function listStudies(store: Store, options: { accountId?: number } = {}):
   const rows = store.db
     .prepare(
       `SELECT s.*,
-        (SELECT COUNT(*) FROM documents d WHERE d.study_id = s.id) AS documents,
+        (SELECT COUNT(*) FROM documents d WHERE d.study_id = s.id AND d.import_id NOT IN (SELECT id FROM imports WHERE kind = 'glossary')) AS documents,
         (SELECT COUNT(*) FROM imports i WHERE i.study_id = s.id) AS imports,
         (SELECT COUNT(*) FROM runs r WHERE r.study_id = s.id) AS runs,
         (SELECT json_group_array(language) FROM (SELECT DISTINCT language FROM documents d
@@ -135,7 +135,7 @@ export function studyContents(store: Store, studyId: number): StudyContents {
       `SELECT
         (SELECT COUNT(*) FROM imports WHERE study_id = @id) AS imports,
         (SELECT COALESCE(SUM(size), 0) FROM imports WHERE study_id = @id) AS originalBytes,
-        (SELECT COUNT(*) FROM documents WHERE study_id = @id) AS answers,
+        (SELECT COUNT(*) FROM documents WHERE study_id = @id AND import_id NOT IN (SELECT id FROM imports WHERE kind = 'glossary')) AS answers,
         (SELECT COUNT(*) FROM vocabularies WHERE study_id = @id) AS vocabularyWords,
         (SELECT COUNT(*) FROM study_word_lists WHERE study_id = @id) AS ownWords,
         (SELECT COUNT(*) FROM runs WHERE study_id = @id) AS runs,

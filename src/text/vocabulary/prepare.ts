@@ -11,7 +11,7 @@ import { scanTokens } from '../tokens/tokenize.js';
 import type { LanguageVocabulary, PipelineSettings, PreparedText } from '../types.js';
 import { findCollocations, GAP, joinCollocations } from './collocations.js';
 
-export type ExclusionReason = 'non-answer' | 'undetermined' | 'too short';
+export type ExclusionReason = 'empty' | 'non-answer' | 'undetermined' | 'too short';
 
 /** The share-of-documents pruning needs this many documents in a language to mean anything (common practice). */
 const MIN_DOCUMENTS_FOR_SHARE = 20;
@@ -33,12 +33,19 @@ interface LanguageState {
   readonly docs: number[];
 }
 
-/** Prepare the text of a whole study. `docs[i].language` is a BCP 47 subtag or null (undetermined). */
+/**
+ * Prepare the text of a whole study. `docs[i].language` is a BCP 47 subtag or null (undetermined).
+ * A `reference` document (a glossary term list, DESIGN §3) is cut, stopped and stemmed like an
+ * answer and gets the same word ids, but it neither counts towards the vocabulary (pruning,
+ * surface forms, collocations) nor is judged a non-answer: the answers alone decide the
+ * vocabulary, and a reference word no answer uses is dropped.
+ */
 export function prepareText(
-  docs: readonly { language: string | null; text: string }[],
+  docs: readonly { language: string | null; text: string; reference?: boolean }[],
   settings: PipelineSettings,
   onProgress?: (done: number, total: number) => void,
 ): PreparedText {
+  const reference = Uint8Array.from(docs, (d) => (d.reference ? 1 : 0));
   const states = new Map<string, LanguageState>();
   const sequences: (Int32Array | null)[] = new Array(docs.length).fill(null);
   const excluded: (ExclusionReason | null)[] = new Array(docs.length).fill(null);
@@ -67,7 +74,8 @@ export function prepareText(
   for (let i = 0; i < docs.length; i++) {
     const { text } = docs[i];
     const language = keyOf(docs[i].language);
-    if (isNonAnswer(text, language, study)) excluded[i] = 'non-answer';
+    const counted = reference[i] === 0;
+    if (counted && isNonAnswer(text, language, study)) excluded[i] = 'non-answer';
     else if (language === null) excluded[i] = 'undetermined';
     else {
       const state = stateFor(states, language, settings, study);
@@ -82,7 +90,7 @@ export function prepareText(
           if (scratch.length > 0 && scratch[scratch.length - 1] !== GAP) scratch.push(GAP);
           return;
         }
-        scratch.push(idOf(state, normal));
+        scratch.push(idOf(state, normal, counted));
       });
       sequences[i] = Int32Array.from(scratch);
       owner[i] = state;
@@ -97,7 +105,7 @@ export function prepareText(
   const vocabularyOf = new Map<LanguageState, number>();
   for (const state of ordered) {
     vocabularyOf.set(state, vocabularies.length);
-    vocabularies.push(buildVocabulary(state, sequences, tokens, settings));
+    vocabularies.push(buildVocabulary(state, sequences, tokens, settings, reference));
   }
 
   if (onProgress !== undefined) onProgress(docs.length, docs.length);
@@ -157,10 +165,10 @@ function isForeignScript(word: string, language: string): boolean {
   return (SCRIPT_FAMILY[own] ?? [own]).every((script) => (counts[script as keyof typeof counts] ?? 0) === 0);
 }
 
-function idOf(state: LanguageState, normal: string): number {
+function idOf(state: LanguageState, normal: string, counted: boolean): number {
   const seen = state.normals.get(normal);
   if (seen !== undefined) {
-    seen[1]++;
+    if (counted) seen[1]++;
     return seen[0];
   }
   const stem = state.stem(normal);
@@ -170,7 +178,7 @@ function idOf(state: LanguageState, normal: string): number {
     state.stems.push(stem);
     state.stemIds.set(stem, id);
   }
-  state.normals.set(normal, [id, 1]);
+  state.normals.set(normal, [id, counted ? 1 : 0]);
   return id;
 }
 
@@ -180,6 +188,7 @@ function buildVocabulary(
   sequences: (Int32Array | null)[],
   tokens: Int32Array[],
   settings: PipelineSettings,
+  reference: Uint8Array,
 ): LanguageVocabulary {
   // Most frequent surface form per stem (DESIGN §5: every stem shown by its commonest word).
   const stems = state.stems.slice();
@@ -195,7 +204,7 @@ function buildVocabulary(
   let docSeqs = state.docs.map((i) => sequences[i] as Int32Array);
   if (settings.collocationNpmi !== null) {
     const typeCount = stems.length;
-    const chosen = findCollocations(docSeqs, typeCount, settings.collocationMinCount, settings.collocationNpmi);
+    const chosen = findCollocations(docSeqs.filter((_, d) => reference[state.docs[d]] === 0), typeCount, settings.collocationMinCount, settings.collocationNpmi);
     const joined = new Map<number, number>();
     const joinedId = (a: number, b: number): number => {
       const key = a * typeCount + b;
@@ -214,7 +223,10 @@ function buildVocabulary(
   const counts = new Int32Array(stems.length);
   const docCounts = new Int32Array(stems.length);
   const lastDoc = new Int32Array(stems.length).fill(-1);
+  let documents = 0;
   docSeqs.forEach((seq, d) => {
+    if (reference[state.docs[d]] === 1) return;
+    documents++;
     for (const id of seq) {
       counts[id]++;
       if (lastDoc[id] !== d) {
@@ -224,7 +236,6 @@ function buildVocabulary(
     }
   });
 
-  const documents = docSeqs.length;
   const useShare = documents >= MIN_DOCUMENTS_FOR_SHARE;
   const kept: number[] = [];
   for (let id = 0; id < stems.length; id++) {
@@ -244,7 +255,7 @@ function buildVocabulary(
     const arr = Int32Array.from(out);
     tokens[state.docs[d]] = arr;
     // Documents about to be excluded as too short do not count towards the vocabulary.
-    if (arr.length < settings.minTokens) return;
+    if (arr.length < settings.minTokens || reference[state.docs[d]] === 1) return;
     const seen = new Set<number>();
     for (const id of arr) {
       finalCounts[id]++;
