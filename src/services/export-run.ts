@@ -1,6 +1,6 @@
 // Export of a finished run (DESIGN §8): the files people take away, built in memory.
 import { documentTokensByIds, getStudy, getStudyWordLists, iterateDocuments, listImports, loadVocabulary, type Store } from '../store/index.js';
-import { answersTable, type AnswerRow } from './answers-table.js';
+import { answersTable, blankReasonFor, type AnswerRow } from './answers-table.js';
 import { BUNDLE_EXTENSION, BUNDLE_VERSION, encodeBundle, type RunBundle } from './bundle.js';
 import { installationKey } from './bundle-key.js';
 import { SHARES_HEADER, contrastCovariates, runContrasts } from './contrasts.js';
@@ -20,6 +20,8 @@ export interface ExportOptions {
   topWords?: number;
   /** Bootstrap draws for the group shares (default 1000). */
   draws?: number;
+  /** Write each answer's text in answers-by-theme (default true). */
+  answerText?: boolean;
 }
 
 /** Ordered covariate names of a study (from the imports' mappings). */
@@ -57,6 +59,14 @@ export function studyAnswerRows(store: Store, model: RunModel): AnswerRow[] {
   for (const doc of docs) {
     let mixture: ArrayLike<number> | null = fitted.get(doc.id) ?? null;
     const tokens = tokenRows.get(doc.id);
+    // Why an answer may end without shares; cleared when fold-in gives it a mixture.
+    let reason: string | null = null;
+    if (!mixture) {
+      if (doc.excluded) reason = blankReasonFor(doc.excluded);
+      else if (!doc.vocabularyLanguage || !tokens || tokens.length === 0) reason = doc.language === null ? 'language undetermined' : 'no words after filtering';
+      else if (!model.languages.includes(doc.vocabularyLanguage)) reason = 'language not in this run';
+      else reason = 'no word the run knows';
+    }
     if (!mixture && tokens && doc.vocabularyLanguage && !doc.excluded) {
       const l = model.languages.indexOf(doc.vocabularyLanguage);
       if (l >= 0) {
@@ -65,13 +75,13 @@ export function studyAnswerRows(store: Store, model: RunModel): AnswerRow[] {
         pending.push({ row: rows.length, language: l, tokens: Int32Array.from(tokens, (w) => runIds[l].get(stems![w]) ?? -1), covariates: doc.covariates });
       }
     }
-    rows.push({ rowId: doc.rowId, question: doc.question, covariates: doc.covariates, language: doc.language, linkKey: doc.linkKey, weight: doc.weight, mixture });
+    rows.push({ rowId: doc.rowId, question: doc.question, text: doc.text, covariates: doc.covariates, language: doc.language, linkKey: doc.linkKey, weight: doc.weight, mixture, reason });
   }
   if (pending.length) {
     const lambda = model.lambda ?? new Float64Array(K).fill(Math.log(0.1));
     const res = foldInDocuments(model.phi, K, pending.map((p) => ({ language: p.language, tokens: p.tokens, alpha: alphaForCovariates(lambda, model.features.encoding, K, p.covariates) })), { sweeps: 50, burnIn: 20, seed: model.run.settings.seed });
     pending.forEach((p, i) => {
-      if (res.unknownWords[i] < p.tokens.length) rows[p.row] = { ...rows[p.row], mixture: res.theta.subarray(i * K, (i + 1) * K) };
+      if (res.unknownWords[i] < p.tokens.length) rows[p.row] = { ...rows[p.row], mixture: res.theta.subarray(i * K, (i + 1) * K), reason: null };
     });
   }
   return rows;
@@ -114,13 +124,33 @@ function safeFileStem(name: string): string {
   return name.replace(/[^\p{L}\p{N}._-]+/gu, '-').replace(/^-+|-+$/g, '') || 'run';
 }
 
-/** Every file of DESIGN §8 for one run (the HTML report is the workbench's). */
-export function exportRun(store: Store, model: RunModel, options: ExportOptions = {}): ExportedFile[] {
+/** Distinct questions (text columns) among the rows: with one, a question column says nothing. */
+export function questionCount(rows: readonly AnswerRow[]): number {
+  return new Set(rows.map((r) => r.question)).size;
+}
+
+/** The tables of an export, shared by the CSV files and the workbook. */
+export interface ExportTables {
+  readonly answers: { header: string[]; rows: CsvCell[][] };
+  readonly words: { header: string[]; rows: CsvCell[][] };
+  readonly shares: { header: string[]; rows: CsvCell[][] };
+  /** One row per theme: number, label, overall share, top words in each language. */
+  readonly themes: { header: string[]; rows: CsvCell[][] };
+  readonly codebook: unknown;
+}
+
+export const WORDS_HEADER = ['theme', 'language', 'rank', 'word', 'stem', 'probability', 'exclusivity'];
+
+export function exportTables(store: Store, model: RunModel, options: ExportOptions = {}): ExportTables {
   const n = options.topWords ?? 20;
   const covariates = studyCovariates(store, model.run.studyId);
-  const answers = answersTable(studyAnswerRows(store, model), covariates, model.labels, studyIdColumn(store, model.run.studyId));
+  const answerRows = studyAnswerRows(store, model);
+  const questions = questionCount(answerRows) > 1;
+  const answers = answersTable(answerRows, covariates, model.labels, { idColumn: studyIdColumn(store, model.run.studyId), questions, text: options.answerText ?? true });
   const shareRows: CsvCell[][] = [];
   for (const by of contrastCovariates(store, model.run.studyId)) {
+    // A study of one text column has one question level: its "group" is every answer.
+    if (by === 'question' && !questions) continue;
     const res = runContrasts(store, model, { by, draws: options.draws ?? 1000, fdr: null });
     for (const r of res.shares) shareRows.push([r.covariate, r.level, r.themeLabel, round6(r.share), round6(r.low), round6(r.high), r.n, Math.round(r.effectiveN * 10) / 10]);
   }
@@ -144,11 +174,24 @@ export function exportRun(store: Store, model: RunModel, options: ExportOptions 
     })),
     imports: listImports(store, study.id).map((i) => ({ file: i.fileName, sha256: i.sha256, mapping: i.mapping })),
   };
+  const themes = {
+    header: ['theme', 'label', 'share', ...model.languages.map((l) => `words · ${l}`)],
+    rows: model.labels.map((label, k) => [k + 1, label, round6(shares[k]), ...model.languages.map((l) => themeWords(model, k, l, 10).map((w) => w.word).join(', '))] as CsvCell[]),
+  };
+  return { answers, words: { header: WORDS_HEADER, rows: themeWordsRows(model, n) }, shares: { header: SHARES_HEADER, rows: shareRows }, themes, codebook };
+}
+
+/** Every file of DESIGN §8 for one run (the HTML report is the workbench's), as CSV and JSON. */
+export function exportRun(store: Store, model: RunModel, options: ExportOptions = {}): ExportedFile[] {
+  return exportFiles(store, model, exportTables(store, model, options));
+}
+
+export function exportFiles(store: Store, model: RunModel, t: ExportTables): ExportedFile[] {
   return [
-    { name: 'answers-by-theme.csv', mediaType: 'text/csv; charset=utf-8', bytes: csvBytes(answers.header, answers.rows) },
-    { name: 'theme-words.csv', mediaType: 'text/csv; charset=utf-8', bytes: csvBytes(['theme', 'language', 'rank', 'word', 'stem', 'probability', 'exclusivity'], themeWordsRows(model, n)) },
-    { name: 'theme-shares-by-group.csv', mediaType: 'text/csv; charset=utf-8', bytes: csvBytes(SHARES_HEADER, shareRows) },
-    { name: 'codebook.json', mediaType: 'application/json', bytes: new TextEncoder().encode(JSON.stringify(codebook, null, 2) + '\n') },
+    { name: 'answers-by-theme.csv', mediaType: 'text/csv; charset=utf-8', bytes: csvBytes(t.answers.header, t.answers.rows) },
+    { name: 'theme-words.csv', mediaType: 'text/csv; charset=utf-8', bytes: csvBytes(t.words.header, t.words.rows) },
+    { name: 'theme-shares-by-group.csv', mediaType: 'text/csv; charset=utf-8', bytes: csvBytes(t.shares.header, t.shares.rows) },
+    { name: 'codebook.json', mediaType: 'application/json', bytes: new TextEncoder().encode(JSON.stringify(t.codebook, null, 2) + '\n') },
     { name: `${safeFileStem(model.run.name)}${BUNDLE_EXTENSION}`, mediaType: 'application/octet-stream', bytes: encodeBundle(buildBundle(store, model), installationKey(store.dataDir)) },
   ];
 }

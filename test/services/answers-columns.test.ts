@@ -3,7 +3,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { applyRun } from '../../src/services/apply-run.js';
 import { buildBundle, exportRun, studyIdColumn } from '../../src/services/export-run.js';
-import { createFitRun, runFitJob } from '../../src/services/fit-run.js';
+import { createFitRun, runFitJob } from '../../src/services/index.js';
 import { loadRunModel, type RunModel } from '../../src/services/run-model.js';
 import * as S from '../../src/store/index.js';
 import { withTempStore } from '../store/helpers.js';
@@ -32,7 +32,8 @@ describe('answers-by-theme.csv column names', () => {
   it('names the id column as the imported file did', () => {
     expect(studyIdColumn(ctx.store, studyId)).toBe(ID);
     const file = exportRun(ctx.store, model, { draws: 20 }).find((f) => f.name === 'answers-by-theme.csv')!;
-    expect(header(file.bytes)).toBe('"Respondent Nr. ""A""",question,region,language,link key,weight,Theme 1,Theme 2,Theme 3,dominant theme');
+    // One text column: no question column; the answer text follows the id.
+    expect(header(file.bytes)).toBe('"Respondent Nr. ""A""",answer,region,language,link key,weight,Theme 1,Theme 2,Theme 3,dominant theme,left out because');
   });
 
   it('Apply names the id and metadata columns as the new file does', async () => {
@@ -42,7 +43,8 @@ describe('answers-by-theme.csv column names', () => {
       fileName: 'wave2.csv',
       mapping: { id: 'Case number', text: ['answer'], covariates: [{ column: 'Zone', type: 'categorical' }] },
     });
-    expect(header(file.bytes)).toBe('Case number,question,Zone,language,link key,weight,Theme 1,Theme 2,Theme 3,dominant theme');
-    expect(new TextDecoder().decode(file.bytes.slice(3)).split(/\r?\n/)[1]).toMatch(/^c1,answer,East,/);
+    // The run has no covariates in its prior, so no coding note column.
+    expect(header(file.bytes)).toBe('Case number,answer,Zone,language,link key,weight,Theme 1,Theme 2,Theme 3,dominant theme,left out because');
+    expect(new TextDecoder().decode(file.bytes.slice(3)).split(/\r?\n/)[1]).toMatch(/^c1,hello there,East,/);
   });
 });

@@ -29,22 +29,29 @@ describe('answers-by-theme table', () => {
     expect(shareColumns(['Hours', 'hours', 'language', ''], ['id', 'language'])).toEqual(['Hours', 'hours (2)', 'language (2)', 'Theme']);
   });
 
-  it('writes id, question, covariates, language, link key, weight, shares and the dominant theme', () => {
+  it('writes id, question, covariates, language, link key, weight, shares, the dominant theme and why shares are blank', () => {
     const t = answersTable(
       [
         { rowId: '7', question: 'q1', covariates: { region: 'North' }, language: 'en', linkKey: null, weight: 2, mixture: [0.2, 0.8] },
-        { rowId: '8', question: 'q1', covariates: { region: null }, language: null, linkKey: 'L1', weight: 1, mixture: null },
+        { rowId: '8', question: 'q1', covariates: { region: null }, language: null, linkKey: 'L1', weight: 1, mixture: null, reason: 'language undetermined' },
       ],
       ['region'],
       ['Hours', 'Wifi'],
     );
-    expect(t.header).toEqual(['id', 'question', 'region', 'language', 'link key', 'weight', 'Hours', 'Wifi', 'dominant theme']);
-    expect(t.rows[0]).toEqual(['7', 'q1', 'North', 'en', '', 2, 0.2, 0.8, 'Wifi']);
-    expect(t.rows[1]).toEqual(['8', 'q1', null, '', 'L1', 1, '', '', '']);
+    expect(t.header).toEqual(['id', 'question', 'region', 'language', 'link key', 'weight', 'Hours', 'Wifi', 'dominant theme', 'left out because']);
+    expect(t.rows[0]).toEqual(['7', 'q1', 'North', 'en', '', 2, 0.2, 0.8, 'Wifi', '']);
+    expect(t.rows[1]).toEqual(['8', 'q1', null, '', 'L1', 1, '', '', '', 'language undetermined']);
   });
 
   it('heads the id column with the name it has in the imported file', () => {
-    const t = answersTable([], ['Région'], ['id'], 'Respondent no.');
-    expect(t.header).toEqual(['Respondent no.', 'question', 'Région', 'language', 'link key', 'weight', 'id', 'dominant theme']);
+    const t = answersTable([], ['Région'], ['id'], { idColumn: 'Respondent no.' });
+    expect(t.header).toEqual(['Respondent no.', 'question', 'Région', 'language', 'link key', 'weight', 'id', 'dominant theme', 'left out because']);
+  });
+
+  it('writes the answer text after the id and leaves the question column out when asked', () => {
+    const t = answersTable([{ rowId: '1', question: 'q', text: '=SUM(A1)', covariates: { answer: 'x' }, language: 'en', linkKey: null, weight: 1, mixture: [1] }], ['answer'], ['T'], { questions: false, text: true });
+    // A covariate already called "answer": the text column is "answer text".
+    expect(t.header).toEqual(['id', 'answer text', 'answer', 'language', 'link key', 'weight', 'T', 'dominant theme', 'left out because']);
+    expect(t.rows[0].slice(0, 2)).toEqual(['1', '=SUM(A1)']);
   });
 });
