@@ -24,9 +24,18 @@ export interface Table {
   /** Each row has exactly columns.length cells; missing values are ''. */
   readonly rows: string[][];
   /** What was assumed: encoding name (e.g. 'UTF-8', 'windows-1252'), delimiter, sheet. */
-  readonly assumed: { encoding: string; encodingConfidence?: number; delimiter?: string; sheet?: string; sheets?: string[] };
+  readonly assumed: { encoding: string; encodingConfidence?: number; delimiter?: string; sheet?: string; sheets?: string[]; encodingNotes?: EncodingNote[] };
   /** SPSS value labels already applied: the columns that came from labelled values. */
   readonly labelledColumns?: string[];
+}
+
+/** A warning about the file's encoding (src/text/import/encoding-notes.ts), shown before and after import. */
+export interface EncodingNote {
+  readonly kind: 'mixed-lines' | 'damaged-utf8' | 'mojibake-fixed' | 'mojibake';
+  /** One or two sentences naming the rows and what to do. */
+  readonly message: string;
+  /** Rows concerned: data rows from 1, 0 for the header row. */
+  readonly rows: number[];
 }
 
 export type CovariateType = 'categorical' | 'numeric';
@@ -56,12 +65,26 @@ export interface MappedDocument {
 
 export type LanguageSource = 'declared' | 'detected' | 'adapted' | 'overridden' | 'undetermined';
 
+/**
+ * How a decision relates to the declared (questionnaire) language, when there is one:
+ * 'confirmed' — the text is written in the declared language; 'kept' — too little evidence
+ * against the declaration, which stands as the prior; 'overruled' — the text is confidently
+ * written in another language, which wins.
+ */
+export type DeclaredCheck = 'confirmed' | 'kept' | 'overruled';
+
 export interface LanguageDecision {
   /** BCP 47 subtag, or null when undetermined. */
   readonly language: string | null;
   readonly source: LanguageSource;
   /** 0..1 */
   readonly confidence: number;
+  /** With a declared language taken as a prior: what the text said about it. */
+  readonly declaredCheck?: DeclaredCheck;
+  /** The language the text is written in by the text alone (null: too little evidence). */
+  readonly written?: string | null;
+  /** An answer written in two languages: the minority language and its share of the words. */
+  readonly mixed?: { readonly language: string; readonly share: number };
 }
 
 export interface PipelineSettings {

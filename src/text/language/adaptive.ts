@@ -156,8 +156,15 @@ export class AdaptiveLanguageModel {
    * Posterior over the candidate languages for a document (word ids from `encode`), best first,
    * or undefined when it has no words. With `own`, the document is assumed learned under that
    * language and its own counts are left out (leave-one-out), so it is judged by the others.
+   * `prior` (one probability per candidate) replaces the study's language mix, e.g. with a
+   * prior that favours the declared language; a uniform one gives the text's evidence alone.
    */
-  posterior(doc: Int32Array, candidates: readonly string[], own?: string): { language: string; probability: number }[] | undefined {
+  posterior(
+    doc: Int32Array,
+    candidates: readonly string[],
+    own?: string,
+    prior?: readonly number[],
+  ): { language: string; probability: number }[] | undefined {
     if (doc.length === 0 || candidates.length === 0) return undefined;
     const w = this.width;
     const words = this.words.data;
@@ -193,8 +200,8 @@ export class AdaptiveLanguageModel {
         continue;
       }
       const loo = slot === ownSlot;
-      const prior = this.mix !== undefined ? this.mix[slot] : this.documents[slot];
-      let score = Math.log((prior + 1) / mixTotal);
+      const mixCount = this.mix !== undefined ? this.mix[slot] : this.documents[slot];
+      let score = prior !== undefined ? Math.log(prior[j]) : Math.log((mixCount + 1) / mixTotal);
       let wordSum = 0;
       let gramSum = 0;
       for (let i = 0; i < doc.length; i++) {

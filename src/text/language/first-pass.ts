@@ -3,6 +3,7 @@
 // among what is left.
 import { removeInvisibles } from '../tokens/invisible.js';
 import { LANGUAGES, type Script } from './languages.js';
+import { isNeutralText } from './neutral.js';
 import { countScripts } from './scripts.js';
 import { trigramGuess } from './trigram.js';
 
@@ -43,6 +44,8 @@ export function firstPass(text: string, study: readonly string[], defer: Trigram
   const normal = removeInvisibles(text.normalize('NFKC'));
   const { counts, letters } = countScripts(normal);
   if (letters < MIN_LETTERS) return NONE;
+  // Emoticons, single letters, "ok", "haha": letters, but no evidence of any language.
+  if (isNeutralText(normal)) return NONE;
   const script = majorityScript(counts);
   if (script === undefined) return NONE;
   const candidates = candidatesFor(script, counts, study);

@@ -2,12 +2,17 @@
 // restricted to the study's languages (first-pass.ts), then a study-adaptive pass: a naive Bayes
 // model learned from the study's own confident documents (adaptive.ts) re-decides the short and
 // uncertain ones, and overrules the trigram profile where the study's usage is clearly against it.
-// A declared language wins unless the caller asks for the text to decide.
+// A declared language is trusted, taken as a prior (declared-prior.ts), or only kept where the
+// text cannot tell, as the caller asks. Answers written in two languages go by their majority
+// language and say so (mixed.ts).
 import type { LanguageDecision } from '../types.js';
 import { openStopWords } from '../tokens/stop-word-lists.js';
 import { AdaptiveLanguageModel } from './adaptive.js';
-import { firstPass, round, type FirstPass } from './first-pass.js';
+import { decideByText, decideWithDeclared, judge, MIN_LEARNED_WORDS, type Ranked, type TextCase } from './decide.js';
+import { declaredPrior } from './declared-prior.js';
+import { firstPass, round } from './first-pass.js';
 import { languageKey } from './languages.js';
+import { mixedLanguages } from './mixed.js';
 
 export interface IdentifyOptions {
   /** The study's languages, in any common tag spelling (`en`, `eng`, `en-GB`). */
@@ -16,6 +21,12 @@ export interface IdentifyOptions {
   declared?: (string | undefined)[];
   /** Default true: a declared language wins. False: the text decides where it disagrees. */
   trustDeclared?: boolean;
+  /**
+   * A declared language as a prior with this mass (0 < m < 1; DECLARED_PRIOR is the usual
+   * choice) instead of trusting it: confident detection wins, too little evidence keeps it.
+   * Takes precedence over trustDeclared.
+   */
+  declaredPrior?: number;
   /**
    * Which documents the adaptive pass may learn from (default: all). Lets a caller hold
    * documents out, e.g. to measure accuracy on texts the model has never seen.
@@ -32,23 +43,19 @@ export interface IdentifyOptions {
 const MAX_TRIGRAM_DOCUMENTS = 20_000;
 /** Weak labels (studies of short answers only) come from texts with at least this many letters (common practice). */
 const WEAK_LABEL_LETTERS = 12;
-/** Below this posterior the adaptive pass leaves a text undetermined (common practice). */
-const MIN_POSTERIOR = 0.3;
 /** The study model relabels a document only when this sure (common practice). */
 const RELABEL_POSTERIOR = 0.9;
 /** Pseudo-count of each open stop-word list entry in the adaptive model (common practice). */
 const SEED_WEIGHT = 1;
 /** Rounds of self-training (common practice; the UDHR check converges in two). */
 const SELF_TRAINING_ROUNDS = 3;
-/** Without a study model, a trigram guess on fewer letters than this is no decision (common practice). */
-const MIN_LETTERS_ALONE = 8;
-/** The model must have learned this many words of two candidates to speak (common practice). */
-const MIN_LEARNED_WORDS = 50;
 
 /** Decide the language of every text of a study. */
 export function identifyLanguages(texts: string[], options: IdentifyOptions): LanguageDecision[] {
   const study = [...new Set(options.languages.map(languageKey))];
-  const trustDeclared = options.trustDeclared !== false;
+  const mass = options.declaredPrior;
+  if (mass !== undefined && !(mass > 0 && mass < 1)) throw new RangeError(`declaredPrior must lie strictly between 0 and 1, not ${mass}`);
+  const trustDeclared = mass === undefined && options.trustDeclared !== false;
   const declared = texts.map((_, i) => {
     const tag = options.declared?.[i];
     return tag === undefined || tag.trim() === '' ? undefined : languageKey(tag);
@@ -60,7 +67,9 @@ export function identifyLanguages(texts: string[], options: IdentifyOptions): La
   const first = texts.map((text, i) => firstPass(text, study, i % stride === 0 ? 'short' : 'always'));
 
   // Learn the study's own usage from what is already certain: trusted declarations and confident
-  // detections, on top of the open stop-word lists as prior knowledge.
+  // detections, on top of the open stop-word lists as prior knowledge. With declarations as a
+  // prior, a declared answer the trigram step is not sure of starts under its declared language;
+  // self-training below moves it if its text says otherwise.
   const model = new AdaptiveLanguageModel(study);
   for (const language of study) model.seed(language, openStopWords(language), SEED_WEIGHT);
   // Only texts with a choice to make between languages need the model's view of them.
@@ -68,9 +77,15 @@ export function identifyLanguages(texts: string[], options: IdentifyOptions): La
   const encoded = texts.map((text, i) => (first[i].candidates.length >= 2 ? model.encode(text) : empty));
   const learned: (string | undefined)[] = new Array(texts.length).fill(undefined);
   const fixed = texts.map((_, i) => trustDeclared && declared[i] !== undefined && learnable(i));
+  const priorOf = (i: number): number[] | undefined => {
+    const d = declared[i];
+    return mass === undefined || d === undefined ? undefined : declaredPrior(first[i].candidates, d, mass);
+  };
   const mix = new Map<string, number>();
   for (let i = 0; i < texts.length; i++) {
-    const label = fixed[i] ? declared[i] : first[i].confident ? (first[i].language ?? undefined) : undefined;
+    const d = declared[i];
+    const fromDeclared = mass !== undefined && d !== undefined && first[i].candidates.includes(d) ? d : undefined;
+    const label = fixed[i] ? d : first[i].confident ? (first[i].language ?? undefined) : fromDeclared;
     if (label === undefined || !learnable(i)) continue;
     // The prior is the study's language mix as the sure documents show it.
     mix.set(label, (mix.get(label) ?? 0) + 1);
@@ -90,21 +105,25 @@ export function identifyLanguages(texts: string[], options: IdentifyOptions): La
     }
   }
   model.setLanguageMix(mix);
+  const caseOf = (i: number): TextCase => ({ text: texts[i], doc: encoded[i], pass: first[i], label: learned[i] });
 
   // Self-training with hard labels (Nigam, McCallum, Thrun & Mitchell 2000, "Text classification
   // from labeled and unlabeled documents using EM", Machine Learning 39): judge every learnable
   // document by all the others (leave-one-out) and (re)label it where the study model is sure.
   // Trigram profiles err between close languages (Spanish/Portuguese); the study's words less so.
-  // The last round's judgement of each document, reused for its final decision once the
-  // rounds have converged (the model has then moved by under a thousandth of its documents).
-  let lastJudged: ({ language: string; probability: number } | undefined)[] | undefined;
-  for (let round = 0; round < SELF_TRAINING_ROUNDS; round++) {
+  // A declared answer is judged with its declaration as prior. The last round's judgement of
+  // each document, reused for its final decision once the rounds have converged (the model
+  // has then moved by under a thousandth of its documents).
+  let lastJudged: (Ranked | undefined)[] | undefined;
+  for (let pass = 0; pass < SELF_TRAINING_ROUNDS; pass++) {
     const changes: [number, string | undefined, string][] = [];
-    const judged: ({ language: string; probability: number } | undefined)[] = new Array(texts.length).fill(undefined);
+    const judged: (Ranked | undefined)[] = new Array(texts.length).fill(undefined);
     for (let i = 0; i < texts.length; i++) {
       if (fixed[i] || !learnable(i) || first[i].candidates.length < 2) continue;
-      const best = judge(encoded[i], first[i].candidates, learned[i], model)?.[0];
-      judged[i] = best;
+      const prior = priorOf(i);
+      const ranked = judge(caseOf(i), model, prior);
+      if (prior === undefined) judged[i] = ranked;
+      const best = ranked?.[0];
       if (best !== undefined && best.language !== learned[i] && best.probability >= RELABEL_POSTERIOR) {
         changes.push([i, learned[i], best.language]);
       }
@@ -122,15 +141,30 @@ export function identifyLanguages(texts: string[], options: IdentifyOptions): La
     }
   }
 
+  const trained = (candidates: readonly string[]): boolean => candidates.filter((l) => model.wordsLearned(l) >= MIN_LEARNED_WORDS).length >= 2;
   return texts.map((text, i): LanguageDecision => {
     const d = declared[i];
     if (d !== undefined && trustDeclared) return { language: d, source: 'declared', confidence: 1 };
-    const known = lastJudged?.[i];
-    const decided = decide(text, study, encoded[i], first[i], learned[i], model, known);
+    const c = caseOf(i);
+    const byText = decideByText(study, c, model, lastJudged?.[i]);
+    let decided: LanguageDecision;
+    if (mass !== undefined && d !== undefined) decided = decideWithDeclared(study, c, model, d, mass, byText);
     // Text with no evidence keeps its declared language, even when asked to review.
-    if (decided.language === null && d !== undefined) return { language: d, source: 'declared', confidence: 1 };
-    return decided;
+    else if (byText.language === null && d !== undefined) return { language: d, source: 'declared', confidence: 1 };
+    else decided = byText;
+    const mixed = mixedLanguages(text, study, model, learned[i], trained);
+    if (mixed === undefined) return decided;
+    return goByMajority(decided, mixed, d);
   });
+}
+
+/** A mixed answer goes by its majority language, and carries the other one. */
+function goByMajority(decided: LanguageDecision, mixed: ReturnType<typeof mixedLanguages> & object, declared: string | undefined): LanguageDecision {
+  const note = { language: mixed.minority, share: round(mixed.minorityShare) };
+  if (decided.language === mixed.majority) return { ...decided, mixed: note };
+  const out: LanguageDecision = { language: mixed.majority, source: 'detected', confidence: round(mixed.majorityShare), mixed: note };
+  if (decided.declaredCheck === undefined || declared === undefined) return out;
+  return { ...out, declaredCheck: declared === mixed.majority ? 'confirmed' : 'overruled', written: mixed.majority };
 }
 
 export interface LanguageDisagreement {
@@ -156,42 +190,4 @@ export function languageDisagreements(
     if (declared !== decision.language) out.push({ index, declared, written: decision.language, confidence: decision.confidence });
   });
   return out;
-}
-
-function decide(
-  text: string,
-  study: readonly string[],
-  doc: Int32Array,
-  pass: FirstPass,
-  label: string | undefined,
-  model: AdaptiveLanguageModel,
-  judged?: { language: string; probability: number },
-): LanguageDecision {
-  if (pass.candidates.length === 0) return { language: null, source: 'undetermined', confidence: 0 };
-  if (pass.candidates.length === 1) return { language: pass.candidates[0], source: 'detected', confidence: pass.confidence };
-  const best = judged ?? judge(doc, pass.candidates, label, model)?.[0];
-  if (best === undefined) {
-    // No study model to ask: the trigram step (skipped for short texts) decides alone.
-    const first = pass.deferred === true ? firstPass(text, study) : pass;
-    if (first.language === null || (!first.confident && first.letters < MIN_LETTERS_ALONE)) {
-      return { language: null, source: 'undetermined', confidence: 0 };
-    }
-    return { language: first.language, source: 'detected', confidence: first.confidence };
-  }
-  if (best.language === pass.language && pass.confident) {
-    return { language: pass.language, source: 'detected', confidence: round(Math.max(pass.confidence, best.probability)) };
-  }
-  if (best.probability < MIN_POSTERIOR) return { language: null, source: 'undetermined', confidence: round(best.probability) };
-  return { language: best.language, source: 'adapted', confidence: round(best.probability) };
-}
-
-/**
- * The study model's posterior for a document, leaving the document's own contribution out;
- * undefined while the model has learned too little about at least two of the candidates.
- */
-function judge(doc: Int32Array, candidates: string[], label: string | undefined, model: AdaptiveLanguageModel) {
-  let trained = 0;
-  for (const c of candidates) if (model.wordsLearned(c) - (c === label ? doc.length : 0) >= MIN_LEARNED_WORDS) trained++;
-  if (trained < 2) return undefined;
-  return model.posterior(doc, candidates, label);
 }
