@@ -39,6 +39,10 @@ export function runContrasts(store: Store, model: RunModel, request: ContrastReq
     weights[d] = doc.weight;
     raw[d] = request.by === 'language' ? doc.language : request.by === 'question' ? doc.question : (doc.covariates[request.by] ?? null);
   }
+  // A glossary's term lists were fitted (they tie the languages together) but are no answers:
+  // they have no level, and are not reported as answers left out either.
+  let glossaryDocs = 0;
+  for (const doc of iterateDocuments(store, model.run.studyId, { kind: 'glossary' })) if (index.has(doc.id)) glossaryDocs++;
   // Linked answers (translations, paired texts) are one respondent with one mixture: count each
   // link group once per level, by its first answer (and that answer's weight), so a translated
   // answer does not double its respondent's weight; members in different levels (e.g. by
@@ -66,11 +70,11 @@ export function runContrasts(store: Store, model: RunModel, request: ContrastReq
   // The linked answers set aside above reach the statistics as "left out"; say what they are
   // instead, and count as left out only the answers that really lack a value or a weight.
   const withNote = (res: ContrastResult): ContrastResult => {
-    if (!merged) return res;
-    const excluded = res.excludedDocuments - merged;
+    if (!merged && !glossaryDocs) return res;
+    const excluded = res.excludedDocuments - merged - glossaryDocs;
     const notes = res.notes.filter((n) => !/document\(s\) left out/.test(n));
     if (excluded > 0) notes.unshift(`${excluded} document(s) left out: no value for "${request.by}" or an unusable weight.`);
-    notes.push(`Linked answers are one respondent: each link group counts once per level (its first answer and weight); ${merged} linked ${merged === 1 ? 'answer was' : 'answers were'} not counted again.`);
+    if (merged) notes.push(`Linked answers are one respondent: each link group counts once per level (its first answer and weight); ${merged} linked ${merged === 1 ? 'answer was' : 'answers were'} not counted again.`);
     return { ...res, excludedDocuments: excluded, notes };
   };
   if (numeric) {

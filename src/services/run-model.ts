@@ -133,13 +133,16 @@ export function documentMixtures(model: RunModel): Map<number, Float64Array> {
   return out;
 }
 
-/** Mean mixture over the fitted documents, optionally weighted (survey weights by document id). */
+/**
+ * Mean mixture over the fitted documents, optionally weighted (survey weights by document id);
+ * with weights, a fitted document missing from them (a glossary's term list) does not count.
+ */
 export function overallShares(model: RunModel, weights?: ReadonlyMap<number, number>): Float64Array {
   const { K } = model;
   const out = new Float64Array(K);
   let total = 0;
   for (let d = 0; d < model.documentIds.length; d++) {
-    const w = weights?.get(model.documentIds[d]) ?? 1;
+    const w = weights ? (weights.get(model.documentIds[d]) ?? 0) : 1;
     const g = model.docGroup[d];
     for (let k = 0; k < K; k++) out[k] += w * model.thetaGroups[g * K + k];
     total += w;

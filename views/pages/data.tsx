@@ -1,6 +1,7 @@
 // Data: the files imported into a study, uploading another, and mapping its columns.
 import { Cautions, count, Notice, when } from '../components.js';
 import { CsrfField, Layout, type PageFrame } from '../layout.js';
+import { GlossarySection, type GlossarySectionProps } from '../glossary.js';
 
 export interface ImportRow {
   readonly id: number;
@@ -33,6 +34,7 @@ export interface DataPageProps {
   readonly declaredLanguages: string[];
   /** One line: whether uploads are checked for viruses. */
   readonly scanning?: string;
+  readonly glossary?: GlossarySectionProps;
 }
 
 function bytes(n: number): string {
@@ -110,6 +112,7 @@ export function DataPage(props: DataPageProps) {
           </form>
         </section>
       )}
+      {props.glossary && <GlossarySection {...props.glossary} />}
       {props.members && (
         <section class="panel">
           <h2>People with access</h2>

@@ -3,6 +3,7 @@
 import { Histogram } from '../charts/index.js';
 import { count, Notice, Pager, percent } from '../components.js';
 import { CsrfField, Layout, type PageFrame } from '../layout.js';
+import { GlossaryTerms, type GlossaryTermsProps } from '../glossary.js';
 
 export interface LanguageRow {
   readonly language: string | null;
@@ -38,6 +39,7 @@ export interface LanguagesPageProps {
   readonly choices: readonly string[];
   readonly canEdit: boolean;
   readonly message?: string;
+  readonly glossaryTerms?: GlossaryTermsProps;
 }
 
 const SOURCES = ['declared', 'detected', 'adapted', 'overridden', 'undetermined'] as const;
@@ -159,6 +161,7 @@ export function LanguagesPage(props: LanguagesPageProps) {
         )}
       </form>
       <Pager base={base} query={{ show: props.show, language: props.filterLanguage }} offset={props.offset} limit={props.limit} total={props.total} />
+      {props.glossaryTerms && <GlossaryTerms {...props.glossaryTerms} />}
     </Layout>
   );
 }

@@ -21,6 +21,8 @@ export interface RunData {
   readonly model: RunModel;
   /** Per corpus document d (the order of model.documentIds). */
   readonly answers: FittedAnswer[];
+  /** Per corpus document: 1 for an answer, 0 for a glossary's term list (or a document since deleted). */
+  readonly isAnswer: Uint8Array;
   readonly docLanguage: Int32Array;
   readonly weights: Float64Array;
   /** Weighted overall share per theme. */
@@ -103,7 +105,8 @@ export class RunDataCache {
     model.documentIds.forEach((id, d) => index.set(id, d));
     const answers = new Array<FittedAnswer>(D);
     const docLanguage = new Int32Array(D).fill(-1);
-    const weights = new Float64Array(D).fill(1);
+    const weights = new Float64Array(D).fill(0);
+    const isAnswer = new Uint8Array(D);
     const langIndex = new Map(model.languages.map((l, i) => [l, i]));
     for (const doc of iterateDocuments(store, model.run.studyId)) {
       const d = index.get(doc.id);
@@ -112,6 +115,7 @@ export class RunDataCache {
       answers[d] = { id: doc.id, rowId: doc.rowId, question: doc.question, text: doc.text, language, covariates: doc.covariates, weight: doc.weight };
       docLanguage[d] = langIndex.get(language) ?? -1;
       weights[d] = Number.isFinite(doc.weight) && doc.weight >= 0 ? doc.weight : 0;
+      isAnswer[d] = 1;
     }
     for (let d = 0; d < D; d++) {
       answers[d] ??= { id: model.documentIds[d], rowId: '', question: '', text: '', language: '', covariates: {}, weight: 1 };
@@ -145,6 +149,7 @@ export class RunDataCache {
     const data: RunData = {
       model,
       answers,
+      isAnswer,
       docLanguage,
       weights,
       shares,

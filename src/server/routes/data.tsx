@@ -13,6 +13,7 @@ import { renderPage } from '../render.js';
 import type { AppEnv } from '../types.js';
 import { PendingUploads } from '../uploads.js';
 import { text } from './forms.js';
+import { glossaryRoutes, glossarySection } from './glossary.js';
 
 function ownerKey(c: Context<AppEnv>): string {
   const u = c.get('user');
@@ -26,7 +27,7 @@ function role(c: Context<AppEnv>, study: Study) {
 
 async function dataPage(c: Context<AppEnv>, study: Study, error?: string, status: 200 | 400 = 200) {
   const { store } = c.get('deps');
-  const imports = listImports(store, study.id).map((i) => {
+  const imports = listImports(store, study.id, 'answers').map((i) => {
     const s = i.summary as { documentsPerLanguage?: Record<string, number>; undetermined?: number; excluded?: Record<string, number> };
     return {
       id: i.id,
@@ -59,6 +60,7 @@ async function dataPage(c: Context<AppEnv>, study: Study, error?: string, status
       members={members}
       declaredLanguages={study.languages}
       scanning={describeScanning(c.get('deps').uploadScanner)}
+      glossary={glossarySection(c, study, { canEdit: r === 'owner' || r === 'editor', canDelete: r === 'owner' })}
     />,
     status,
   );
@@ -101,6 +103,7 @@ export function dataRoutes(): Hono<AppEnv> {
   }
 
   app.get('/studies/:sid/data', (c) => dataPage(c, studyFor(c)));
+  app.route('/', glossaryRoutes(dataPage));
 
   app.post('/studies/:sid/data/upload', async (c) => {
     const study = studyFor(c, 'write');

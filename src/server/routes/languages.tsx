@@ -3,6 +3,7 @@
 import { Hono, type Context } from 'hono';
 import { LanguagesPage } from '../../../views/pages/languages.js';
 import { rebuildVocabulary } from '../../services/vocabulary.js';
+import { glossaryTermsByLanguage } from '../../services/glossary.js';
 import { languageSummary, listDocuments, overrideLanguages, studyRole, type DocumentFilter } from '../../store/index.js';
 import { frame, studyFor } from '../access.js';
 import { renderPage } from '../render.js';
@@ -59,6 +60,7 @@ export function languageRoutes(): Hono<AppEnv> {
         limit={PAGE}
         choices={choices}
         canEdit={role === 'owner' || role === 'editor'}
+        glossaryTerms={{ byLanguage: glossaryTermsByLanguage(store, study.id), dataHref: `/studies/${study.id}/data` }}
         message={Number.isInteger(changed) && changed >= 0 && c.req.query('changed') !== undefined ? `Changed the language of ${changed} answer${changed === 1 ? '' : 's'}; the vocabulary was rebuilt.` : undefined}
       />,
     );

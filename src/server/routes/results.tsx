@@ -136,7 +136,7 @@ export function resultRoutes(cache: RunDataCache): Hono<AppEnv> {
       };
     });
     const groups = data.covariateNames
-      .filter((n) => n !== 'question' || new Set(data.answers.map((a) => a.question)).size > 1)
+      .filter((n) => n !== 'question' || new Set(data.answers.filter((_, d) => data.isAnswer[d]).map((a) => a.question)).size > 1)
       .map((covariate) => {
         const res = data.contrast(covariate);
         return { covariate, rows: res.shares.filter((r) => r.theme === k).map((r) => ({ level: r.level, share: r.share, low: r.low, high: r.high, n: r.n, effectiveN: r.effectiveN })) };
@@ -237,6 +237,7 @@ export function resultRoutes(cache: RunDataCache): Hono<AppEnv> {
     const matches: number[] = [];
     for (let d = 0; d < data.answers.length; d++) {
       const a = data.answers[d];
+      if (!data.isAnswer[d]) continue; // a glossary's term list was fitted but is no answer
       if (language && a.language !== language) continue;
       if (themeIndex >= 0 && data.dominant[d] !== themeIndex) continue;
       if (by && String(by === 'question' ? a.question : (a.covariates[by] ?? '')) !== level) continue;
