@@ -5,6 +5,7 @@ import { Command, CommanderError } from 'commander';
 import { InputError } from '../text/types.js';
 import { registerAdminCommands } from './admin-commands.js';
 import { registerCheckCommands } from './check-commands.js';
+import { registerGlossaryCommand } from './glossary-command.js';
 import { CliContext, type CliIo } from './context.js';
 import { registerRunCommands } from './run-commands.js';
 import { registerStudyCommands } from './study-commands.js';
@@ -45,6 +46,7 @@ Exit codes: 0 done, 2 a problem with the input or the command line (one line on 
     .exitOverride()
     .configureOutput({ writeOut: (s) => ctx.io.stdout.write(s), writeErr: (s) => ctx.io.stderr.write(s) });
   registerStudyCommands(program, ctx);
+  registerGlossaryCommand(program, ctx);
   registerRunCommands(program, ctx);
   registerCheckCommands(program, ctx);
   registerAdminCommands(program, ctx);
