@@ -91,4 +91,18 @@ describe('glossaries in the workbench', () => {
     expect(rows).toHaveLength(S.listDocuments(t.store, studyId).total);
     expect(rows.some((r) => r.question === 'glossary' || r.linkKey?.startsWith('glossary:'))).toBe(false);
   });
+
+  it('deletes a glossary from its Delete link, and refuses while a run was fitted on it', async () => {
+    const fitted = S.listImports(t.store, studyId, 'glossary')[0];
+    const refused = await (await get(`/studies/${studyId}/imports/${fitted.id}/delete`)).text();
+    expect(refused).toMatch(/fitted on answers of subgroups\.csv/);
+    const up = await postFile(t, `/studies/${studyId}/glossary`, csrf, { name: 'apples.csv', bytes: 'en,es\nred apple,manzana roja\ngreen apple,manzana verde\n' });
+    expect(up.status).toBe(303);
+    const id = idFrom(up.headers.get('Location'), /glossary=(\d+)/);
+    const confirm = await (await get(`/studies/${studyId}/imports/${id}/delete`)).text();
+    expect(confirm).toContain('its 4 glossary term documents');
+    const done = await postForm(t, `/studies/${studyId}/imports/${id}/delete`, csrf);
+    expect(done.status).toBeLessThan(400);
+    expect(S.listImports(t.store, studyId, 'glossary').map((i) => i.fileName)).toEqual(['subgroups.csv']);
+  });
 });

@@ -102,7 +102,7 @@ export function removalRoutes(): Hono<AppEnv> {
         frame={frame(c, `Delete · ${r.fileName}`, { study, active: 'data' })}
         what="file"
         name={r.fileName}
-        removes={[`the original file as uploaded (${formatBytes(r.size)})`, `its ${count(r.documents, 'answer')}`, "their words in the study's vocabulary (rebuilt without them)"]}
+        removes={[`the original file as uploaded (${formatBytes(r.size)})`, `its ${count(r.documents, r.kind === 'glossary' ? 'glossary term document' : 'answer')}`, "their words in the study's vocabulary (rebuilt without them)"]}
         refusal={plan.refusal}
         action={`/studies/${study.id}/imports/${r.id}/delete`}
         back={`/studies/${study.id}/data`}
