@@ -22,7 +22,10 @@ export interface ImportOptions {
   /** Declared languages of the study (any common tag spelling); added to the study's own. */
   languages?: string[];
   sheet?: string;
-  /** Default true: a declared language column wins over detection. */
+  /**
+   * Default false: a declared language column is a strong prior and confident detection of the
+   * written language wins; true: the declared language always wins.
+   */
   trustDeclared?: boolean;
   onProgress?: (progress: ImportProgress) => void;
 }
@@ -76,7 +79,7 @@ export async function importFile(store: Store, options: ImportOptions): Promise<
   }
 
   progress({ phase: 'languages', done: 0, total: docs.length });
-  const outcomes = decideLanguages(docs.map((d) => d.text), languages, docs.map((d) => d.declaredLanguage), options.trustDeclared !== false);
+  const outcomes = decideLanguages(docs.map((d) => d.text), languages, docs.map((d) => d.declaredLanguage), options.trustDeclared === true);
   const decisions = outcomes.map((o) => o.decision);
   progress({ phase: 'languages', done: docs.length, total: docs.length });
   const found = [...new Set(decisions.map((d) => d.language).filter((x): x is string => !!x))];
@@ -118,6 +121,9 @@ export async function importFile(store: Store, options: ImportOptions): Promise<
         confidence: decisions[i].confidence,
         declaredLanguage: d.declaredLanguage ?? null,
         writtenLanguage: outcomes[i].written,
+        declaredCheck: decisions[i].declaredCheck ?? null,
+        mixedLanguage: decisions[i].mixed?.language ?? null,
+        mixedShare: decisions[i].mixed?.share ?? null,
         linkKey: d.linkKey ?? null,
         covariates: d.covariates,
         weight: d.weight,

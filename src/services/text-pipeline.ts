@@ -1,6 +1,7 @@
 // The one place services call the text pipeline (src/text), so the rest of the services layer
 // depends on a small, stable shape: read → map → identify → prepare.
 import {
+  DECLARED_PRIOR,
   defaultPipelineSettings,
   identifyLanguages,
   mapColumns,
@@ -37,20 +38,24 @@ export function normalizeLanguages(tags: readonly string[], source = '--language
 }
 
 export interface LanguageOutcome {
-  /** The decision kept: a trusted declaration wins, otherwise the text decides. */
+  /** The decision kept: the written language, with the declared one as a strong prior (or trusted, when asked). */
   readonly decision: LanguageDecision;
   /** The language the text is written in, judged from the text alone (null: too little evidence). */
   readonly written: string | null;
 }
 
 /**
- * Decide each answer's language and, separately, the language its text is written in, so that
- * declared-vs-written disagreements can be reviewed (DESIGN §5) even when declarations win.
+ * Decide each answer's language (DESIGN §5): the declared (questionnaire) language is a strong
+ * prior, not the truth (DECLARED_PRIOR of the mass, src/text/language/declared-prior.ts), so
+ * confident detection of the written language wins and too little evidence keeps the
+ * declaration; the declared language itself is stored beside the decision. With
+ * `trustDeclared` the declaration always wins (the written language is still judged, so the
+ * disagreements can be reviewed).
  */
-export function decideLanguages(texts: string[], languages: string[], declared: (string | undefined)[], trustDeclared = true): LanguageOutcome[] {
-  const byText = identifyLanguages(texts, { languages, declared, trustDeclared: false });
+export function decideLanguages(texts: string[], languages: string[], declared: (string | undefined)[], trustDeclared = false): LanguageOutcome[] {
+  const byText = identifyLanguages(texts, { languages, declared, declaredPrior: DECLARED_PRIOR });
   return byText.map((d, i) => {
-    const written = d.source === 'declared' ? null : d.language;
+    const written = d.written !== undefined ? d.written : d.language;
     const tag = declared[i]?.trim();
     const decision: LanguageDecision = trustDeclared && tag ? { language: normalizeLanguageTag(tag) ?? tag, source: 'declared', confidence: 1 } : d;
     return { decision, written };

@@ -1,6 +1,6 @@
 // Documents: one text cell each, with its language decision, link key, covariates, weight,
 // exclusion reason and token ids (Int32Array bytes into its language's vocabulary).
-import type { LanguageSource } from '../text/types.js';
+import type { DeclaredCheck, LanguageSource } from '../text/types.js';
 import { int32FromBlob, toBlob } from './blobs.js';
 import { inTransaction, type Store } from './database.js';
 
@@ -14,6 +14,11 @@ export interface NewDocument {
   readonly declaredLanguage?: string | null;
   /** Language of the text judged from the text alone (null: too little evidence or not judged). */
   readonly writtenLanguage?: string | null;
+  /** What the text said about the declared language (null: none declared, or trusted). */
+  readonly declaredCheck?: DeclaredCheck | null;
+  /** Answers written in two languages: the minority language and its share of the words. */
+  readonly mixedLanguage?: string | null;
+  readonly mixedShare?: number | null;
   readonly linkKey?: string | null;
   readonly covariates: Record<string, string | number | null>;
   readonly weight: number;
@@ -26,6 +31,9 @@ export interface DocumentRecord extends NewDocument {
   readonly importId: number;
   readonly declaredLanguage: string | null;
   readonly writtenLanguage: string | null;
+  readonly declaredCheck: DeclaredCheck | null;
+  readonly mixedLanguage: string | null;
+  readonly mixedShare: number | null;
   readonly linkKey: string | null;
   readonly excluded: string | null;
   readonly vocabularyLanguage: string | null;
@@ -53,6 +61,9 @@ interface DocumentRow {
   confidence: number;
   declared_language: string | null;
   written_language: string | null;
+  declared_check: DeclaredCheck | null;
+  mixed_language: string | null;
+  mixed_share: number | null;
   link_key: string | null;
   covariates: string;
   weight: number;
@@ -60,7 +71,7 @@ interface DocumentRow {
   vocabulary_language: string | null;
 }
 
-const COLUMNS = 'id, study_id, import_id, row_id, question, text, language, language_source, confidence, declared_language, written_language, link_key, covariates, weight, excluded, vocabulary_language';
+const COLUMNS = 'id, study_id, import_id, row_id, question, text, language, language_source, confidence, declared_language, written_language, declared_check, mixed_language, mixed_share, link_key, covariates, weight, excluded, vocabulary_language';
 
 function toDocument(row: DocumentRow): DocumentRecord {
   return {
@@ -75,6 +86,9 @@ function toDocument(row: DocumentRow): DocumentRecord {
     confidence: row.confidence,
     declaredLanguage: row.declared_language,
     writtenLanguage: row.written_language,
+    declaredCheck: row.declared_check,
+    mixedLanguage: row.mixed_language,
+    mixedShare: row.mixed_share,
     linkKey: row.link_key,
     covariates: JSON.parse(row.covariates) as Record<string, string | number | null>,
     weight: row.weight,
@@ -86,13 +100,13 @@ function toDocument(row: DocumentRow): DocumentRecord {
 /** Insert documents of one import (one transaction); returns their ids in input order. */
 export function insertDocuments(store: Store, studyId: number, importId: number, docs: readonly NewDocument[]): number[] {
   const stmt = store.db.prepare(
-    `INSERT INTO documents (study_id, import_id, row_id, question, text, language, language_source, confidence, declared_language, written_language, link_key, covariates, weight, excluded)
-     VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+    `INSERT INTO documents (study_id, import_id, row_id, question, text, language, language_source, confidence, declared_language, written_language, declared_check, mixed_language, mixed_share, link_key, covariates, weight, excluded)
+     VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
   );
   return inTransaction(store, () =>
     docs.map((d) =>
       Number(
-        stmt.run(studyId, importId, d.rowId, d.question, d.text, d.language, d.languageSource, d.confidence, d.declaredLanguage ?? null, d.writtenLanguage ?? null, d.linkKey ?? null, JSON.stringify(d.covariates), d.weight, d.excluded ?? null)
+        stmt.run(studyId, importId, d.rowId, d.question, d.text, d.language, d.languageSource, d.confidence, d.declaredLanguage ?? null, d.writtenLanguage ?? null, d.declaredCheck ?? null, d.mixedLanguage ?? null, d.mixedShare ?? null, d.linkKey ?? null, JSON.stringify(d.covariates), d.weight, d.excluded ?? null)
           .lastInsertRowid,
       ),
     ),
@@ -128,6 +142,10 @@ export interface DocumentFilter {
   excluded?: boolean;
   /** Only documents whose declared language differs from the written (or the decided) one. */
   disagreements?: boolean;
+  /** Only answers written in two languages. */
+  mixed?: boolean;
+  /** Only documents whose decided language differs from the one their text is written in. */
+  writtenDiffers?: boolean;
   /** Case-insensitive substring of the text or row id. */
   search?: string;
   ids?: readonly number[];
@@ -137,6 +155,9 @@ export interface DocumentFilter {
 
 /** Declared language differs from what the text is written in, or from the decision kept. */
 const DISAGREES = 'declared_language IS NOT NULL AND ((written_language IS NOT NULL AND written_language <> declared_language) OR (language IS NOT NULL AND language <> declared_language))';
+
+/** The text is written in another language than the one decided (what "accept written" changes). */
+const WRITTEN_DIFFERS = 'written_language IS NOT NULL AND (language IS NULL OR language <> written_language)';
 
 function whereClause(studyId: number, f: DocumentFilter): { sql: string; params: unknown[] } {
   const parts = ['study_id = ?'];
@@ -150,6 +171,8 @@ function whereClause(studyId: number, f: DocumentFilter): { sql: string; params:
   if (f.excluded === true) parts.push('excluded IS NOT NULL');
   if (f.excluded === false) parts.push('excluded IS NULL');
   if (f.disagreements) parts.push(DISAGREES);
+  if (f.mixed) parts.push('mixed_language IS NOT NULL');
+  if (f.writtenDiffers) parts.push(WRITTEN_DIFFERS);
   if (f.search) {
     parts.push('(instr(unicode_lower(text), unicode_lower(?)) > 0 OR row_id = ?)');
     params.push(f.search, f.search);
@@ -254,8 +277,9 @@ export function adoptWrittenLanguages(store: Store, studyId: number, ids?: reado
     () =>
       store.db
         .prepare(
-          `UPDATE documents SET language = written_language, language_source = 'overridden', confidence = 1
-           WHERE study_id = ? AND written_language IS NOT NULL AND (language IS NULL OR language <> written_language)
+          `UPDATE documents SET language = written_language, language_source = 'overridden', confidence = 1,
+             excluded = CASE WHEN excluded = 'undetermined' THEN NULL ELSE excluded END
+           WHERE study_id = ? AND ${WRITTEN_DIFFERS} AND ${ANSWER_DOCUMENTS}
              AND (? IS NULL OR id IN (SELECT value FROM json_each(?)))`,
         )
         .run(studyId, ids ? 1 : null, JSON.stringify(ids ?? [])).changes,

@@ -194,6 +194,15 @@ ALTER TABLE sessions ADD COLUMN password_changes_told INTEGER NOT NULL DEFAULT 0
 ALTER TABLE imports ADD COLUMN kind TEXT NOT NULL DEFAULT 'answers' CHECK (kind IN ('answers', 'glossary'));
 `,
   },
+  {
+    version: 7,
+    description: 'what the text said about the declared language, and the second language of answers written in two',
+    sql: `
+ALTER TABLE documents ADD COLUMN declared_check TEXT CHECK (declared_check IN ('confirmed', 'kept', 'overruled'));
+ALTER TABLE documents ADD COLUMN mixed_language TEXT;
+ALTER TABLE documents ADD COLUMN mixed_share REAL;
+`,
+  },
 ];
 
 /** Highest migration number this program knows. */

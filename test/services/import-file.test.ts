@@ -34,11 +34,23 @@ describe('importFile', () => {
     expect(typeof doc.covariates.age).toBe('number');
   });
 
-  it('keeps a declared language but records the language written, so disagreements can be reviewed', async () => {
+  it('lets the written language win over a wrong declaration, keeping the declared one beside it', async () => {
     const rows = surveyRows(40);
     const i = rows.findIndex((r) => r.lang === 'es' && !r.link);
     rows[i] = { ...rows[i], lang: 'en' }; // a Spanish answer declared as English
     const s = await importFile(ctx.store, { study: 'Survey', bytes: enc(surveyCsv(rows)), fileName: 'survey.csv', mapping: FIXTURE_MAPPING, languages: ['en', 'es'] });
+    const found = S.listDocuments(ctx.store, s.studyId, { disagreements: true }).rows;
+    expect(found.map((d) => [d.rowId, d.language, d.declaredLanguage, d.writtenLanguage, d.declaredCheck])).toEqual([[rows[i].id, 'es', 'en', 'es', 'overruled']]);
+    // Every other answer's declaration is confirmed by its text (or kept where the text is too short to say).
+    const others = S.listDocuments(ctx.store, s.studyId, {}, { limit: 1000 }).rows.filter((d) => d.rowId !== rows[i].id && d.declaredLanguage !== null);
+    expect(others.every((d) => d.language === d.declaredLanguage && d.declaredCheck !== 'overruled')).toBe(true);
+  });
+
+  it('keeps a trusted declared language but records the language written, so disagreements can be reviewed', async () => {
+    const rows = surveyRows(40);
+    const i = rows.findIndex((r) => r.lang === 'es' && !r.link);
+    rows[i] = { ...rows[i], lang: 'en' }; // a Spanish answer declared as English
+    const s = await importFile(ctx.store, { study: 'Survey', bytes: enc(surveyCsv(rows)), fileName: 'survey.csv', mapping: FIXTURE_MAPPING, languages: ['en', 'es'], trustDeclared: true });
     const found = S.listDocuments(ctx.store, s.studyId, { disagreements: true }).rows;
     expect(found.map((d) => [d.rowId, d.language, d.languageSource, d.writtenLanguage])).toEqual([[rows[i].id, 'en', 'declared', 'es']]);
     expect(S.languageSummary(ctx.store, s.studyId).find((r) => r.language === 'en')!.disagreements).toBe(1);
