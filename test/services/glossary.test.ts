@@ -75,6 +75,8 @@ describe('importGlossary', () => {
       for (const [i, s] of subgroups.entries()) {
         const answer = S.listDocuments(ctx.store, answers.studyId, { search: `${language}-sub-${s.key}-1` }).rows[0];
         const term = glossaryDocs.find((d) => d.language === language && d.rowId === String(i + 1))!;
+        // An answer whose text was taken to be written in another language has that language's stems.
+        if (answer.language !== language) continue;
         const a = tokenById.get(answer.id);
         const t = tokenById.get(term.id);
         expect(Boolean(a), `${language} "${s.names[language]}"`).toBe(Boolean(t));
