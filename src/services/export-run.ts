@@ -124,6 +124,11 @@ function safeFileStem(name: string): string {
   return name.replace(/[^\p{L}\p{N}._-]+/gu, '-').replace(/^-+|-+$/g, '') || 'run';
 }
 
+/** The saved-run bundle's file name for a run. */
+export function bundleFileName(runName: string): string {
+  return `${safeFileStem(runName)}${BUNDLE_EXTENSION}`;
+}
+
 /** Distinct questions (text columns) among the rows: with one, a question column says nothing. */
 export function questionCount(rows: readonly AnswerRow[]): number {
   return new Set(rows.map((r) => r.question)).size;
@@ -192,6 +197,6 @@ export function exportFiles(store: Store, model: RunModel, t: ExportTables): Exp
     { name: 'theme-words.csv', mediaType: 'text/csv; charset=utf-8', bytes: csvBytes(t.words.header, t.words.rows) },
     { name: 'theme-shares-by-group.csv', mediaType: 'text/csv; charset=utf-8', bytes: csvBytes(t.shares.header, t.shares.rows) },
     { name: 'codebook.json', mediaType: 'application/json', bytes: new TextEncoder().encode(JSON.stringify(t.codebook, null, 2) + '\n') },
-    { name: `${safeFileStem(model.run.name)}${BUNDLE_EXTENSION}`, mediaType: 'application/octet-stream', bytes: encodeBundle(buildBundle(store, model), installationKey(store.dataDir)) },
+    { name: bundleFileName(model.run.name), mediaType: 'application/octet-stream', bytes: encodeBundle(buildBundle(store, model), installationKey(store.dataDir)) },
   ];
 }

@@ -6,7 +6,10 @@ import { Hono, type Context } from 'hono';
 import { HTTPException } from 'hono/http-exception';
 import { ApplyPage, ExportPage } from '../../../views/pages/export.js';
 import { ReportDocument } from '../../../views/pages/report.js';
-import { applyRun, buildBundle, exportRun } from '../../services/index.js';
+import { applyRun, buildBundle } from '../../services/index.js';
+import { describeCovariateNote } from '../../services/apply-covariates.js';
+import { bundleFileName, exportFiles, exportTables } from '../../services/export-run.js';
+import { exportWorkbook } from '../../services/export-workbook.js';
 import { getRunExportBytes, inTransaction, listImports, listRunExports, saveRunExport, studyRole, type Study } from '../../store/index.js';
 import { InputError } from '../../text/types.js';
 import { scanUpload } from '../../services/scan-upload.js';
@@ -80,6 +83,7 @@ export function exportRoutes(cache: RunDataCache): Hono<AppEnv> {
         base={base}
         files={[...latest.values()]}
         canEdit={canEdit(c, study)}
+        bundleName={bundleFileName(run.name)}
         message={c.req.query('prepared') ? 'The files are ready.' : undefined}
       />,
     );
@@ -88,7 +92,12 @@ export function exportRoutes(cache: RunDataCache): Hono<AppEnv> {
   app.post('/studies/:sid/runs/:rid/export', async (c) => {
     const { study, run, data, base } = load(c, 'write');
     const { store } = c.get('deps');
-    const files = exportRun(store, data.model);
+    const body = await c.req.parseBody();
+    // Checkboxes send nothing when cleared: "choices" says the form was sent, so both default to on.
+    const chosen = (name: string) => body.choices !== '1' || body[name] === '1';
+    const tables = exportTables(store, data.model, { answerText: chosen('answerText') });
+    const files = exportFiles(store, data.model, tables);
+    if (chosen('workbook')) files.splice(3, 0, await exportWorkbook(tables));
     const report = new TextEncoder().encode(await reportHtml(study, data));
     inTransaction(store, () => {
       for (const f of files) saveRunExport(store, run.id, f.name, f.mediaType, f.bytes);
@@ -135,11 +144,21 @@ export function exportRoutes(cache: RunDataCache): Hono<AppEnv> {
       const bytes = new Uint8Array(await file.arrayBuffer());
       // Scanned like every upload before it is read (OWASP ASVS 4.0.3 V12.4.2; scan-upload.ts).
       await scanUpload(c.get('deps').uploadScanner, bytes, fileName);
-      const out = await applyRun(buildBundle(store, data.model), { bytes, fileName, sheet: text(body.sheet).trim() || undefined });
+      const answerText = body.choices !== '1' || body.answerText === '1';
+      const out = await applyRun(buildBundle(store, data.model), { bytes, fileName, sheet: text(body.sheet).trim() || undefined, answerText });
       const stem = fileName.replace(/\.[^.]+$/, '').replace(/[^\p{L}\p{N}._-]+/gu, '-').slice(0, 80) || 'answers';
       const name = `coded-${stem}.csv`;
       const fileId = saveRunExport(store, run.id, name, out.file.mediaType, out.file.bytes);
-      return applyPage(c, { result: { fileId, fileName: name, ...out.summary } });
+      const { summary } = out;
+      return applyPage(c, {
+        result: {
+          fileId,
+          fileName: name,
+          ...summary,
+          missingColumns: summary.missingColumns.map((m) => `"${m.column}" (${m.role})`),
+          covariateNotes: summary.covariateNotes.map(describeCovariateNote),
+        },
+      });
     } catch (error) {
       if (error instanceof InputError) return applyPage(c, { error: error.message });
       throw error;
