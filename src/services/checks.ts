@@ -2,6 +2,10 @@
 // coherence per theme and language, cross-language alignment on held-out link groups, stability
 // against other runs of the study with the same K, and the fitted hyperparameters. The figures
 // come from src/eval; this file only gathers the run's documents and mixtures for it.
+// Per theme and language pair, alignment is also judged on matched pairs (issue 12): the
+// members of held-out link groups, each folded in on its own, and the terms of glossary rows
+// (whose documents are fitted, so that figure says how well the glossary held, not a test on
+// unseen text). Glossary documents are kept out of coherence and of the held-out answers.
 import { buildCorpus } from '../model/corpus.js';
 import { Xoshiro128 } from '../model/rng.js';
 import {
@@ -10,21 +14,31 @@ import {
   documentCompletionPerplexity,
   meanCoherence,
   stabilityAcrossRuns,
+  themeAlignment,
+  wordThemeMixture,
   type AlignmentResult,
+  type MatchedPair,
+  type ThemeAlignmentResult,
   type PerplexityResult,
   type ThemeCoherence,
 } from '../eval/index.js';
-import { listDocumentTokens, listRuns, loadVocabulary, type Store } from '../store/index.js';
+import { glossaryDocumentIds, listDocumentTokens, listRuns, loadVocabulary, type Store } from '../store/index.js';
 import { alphaForCovariates, foldInDocuments, foldInGroup, DEFAULT_FOLD_IN } from './fold-in.js';
 import { loadRunModel, type RunModel } from './run-model.js';
 
+/** Bumped when the checks gain figures, so stored checks of an older version are computed again. */
+export const CHECKS_VERSION = 2;
+
 export interface RunChecks {
+  readonly version?: number;
   readonly run: string;
   readonly K: number;
   readonly logLikelihoodPerToken: { first: number; last: number; sweeps: number };
   readonly perplexity: PerplexityResult | null;
   readonly coherence: { themes: (ThemeCoherence & { languageName: string; label: string })[]; meanNpmi: number; meanLogConditional: number };
   readonly alignment: AlignmentResult | null;
+  /** Per theme and language pair: held-out translations, and glossary rows (null when there are none). */
+  readonly themeAlignment?: { heldOut: ThemeAlignmentResult | null; glossary: ThemeAlignmentResult | null };
   readonly stability: { runs: string[]; overall: number; perTheme: number[] } | null;
   readonly hyperparameters: { beta: Record<string, number>; alphaSum: { min: number; max: number }; features: string[] };
   readonly notes: string[];
@@ -32,6 +46,7 @@ export interface RunChecks {
 
 interface MappedDoc {
   id: number;
+  glossary: boolean;
   language: number;
   linkKey: string | null;
   covariates: Record<string, string | number | null>;
@@ -43,12 +58,13 @@ function runDocuments(store: Store, model: RunModel): MappedDoc[] {
   const runIds = model.vocabularies.map((v) => new Map(v.stems.map((s, i) => [s, i])));
   const current = new Map<string, string[]>();
   const out: MappedDoc[] = [];
+  const glossary = glossaryDocumentIds(store, model.run.studyId);
   for (const d of listDocumentTokens(store, model.run.studyId)) {
     const l = model.languages.indexOf(d.language);
     if (l < 0) continue;
     let stems = current.get(d.language);
     if (!stems) current.set(d.language, (stems = loadVocabulary(store, model.run.studyId, d.language).stems));
-    out.push({ id: d.id, language: l, linkKey: d.linkKey, covariates: d.covariates, tokens: Int32Array.from(d.tokens, (w) => runIds[l].get(stems![w]) ?? -1) });
+    out.push({ id: d.id, glossary: glossary.has(d.id), language: l, linkKey: d.linkKey, covariates: d.covariates, tokens: Int32Array.from(d.tokens, (w) => runIds[l].get(stems![w]) ?? -1) });
   }
   return out;
 }
@@ -56,7 +72,8 @@ function runDocuments(store: Store, model: RunModel): MappedDoc[] {
 export function runChecks(store: Store, model: RunModel): RunChecks {
   const { K } = model;
   const notes: string[] = [];
-  const docs = runDocuments(store, model);
+  const all = runDocuments(store, model);
+  const docs = all.filter((d) => !d.glossary);
   const lambda = model.lambda ?? new Float64Array(K).fill(Math.log(0.1));
   const encoding = model.features.encoding;
   const rng = Xoshiro128.fromSeed(model.run.settings.seed, 31337);
@@ -76,6 +93,7 @@ export function runChecks(store: Store, model: RunModel): RunChecks {
   const held = docs.filter((d) => heldSet.has(d.id));
   let perplexity: PerplexityResult | null = null;
   let alignment: AlignmentResult | null = null;
+  let heldOutThemes: ThemeAlignmentResult | null = null;
   if (held.length === 0) notes.push('No answers were held out: fit with --holdout 0.1 to get perplexity and alignment.');
   else {
     const built = buildCorpus({
@@ -107,8 +125,11 @@ export function runChecks(store: Store, model: RunModel): RunChecks {
         docGroup: pairs.map((d) => keyIndex.get(d.linkKey!) ?? keyIndex.set(d.linkKey!, keyIndex.size).get(d.linkKey!)!),
         languages: model.languages,
       });
+      heldOutThemes = themeAlignment(K, model.languages, partnerPairs(pairs, fold.theta, K));
     } else notes.push('No held-out linked answers in two languages: alignment needs translations among the held-out answers.');
   }
+
+  const glossaryThemes = glossaryAlignment(all.filter((d) => d.glossary), model);
 
   // Stability: other finished runs of this study with the same K and vocabulary sizes.
   let stability: RunChecks['stability'] = null;
@@ -132,12 +153,14 @@ export function runChecks(store: Store, model: RunModel): RunChecks {
   }
   const trace = model.diagnostics.trace;
   return {
+    version: CHECKS_VERSION,
     run: model.run.name,
     K,
     logLikelihoodPerToken: { first: trace[0], last: trace[trace.length - 1], sweeps: trace.length },
     perplexity,
     coherence: { themes: coherence, meanNpmi: mc.npmi, meanLogConditional: mc.logConditional },
     alignment,
+    themeAlignment: { heldOut: heldOutThemes, glossary: glossaryThemes },
     stability,
     hyperparameters: { beta: Object.fromEntries(model.languages.map((l, i) => [l, model.beta[i]])), alphaSum: { min, max }, features: model.features.names },
     notes,
@@ -148,4 +171,48 @@ function foldInOut(phi: readonly Float64Array[], K: number, observed: readonly {
   const out = new Float64Array(K);
   foldInGroup(phi, K, observed.map((o) => ({ language: o.language, tokens: o.words })), alpha, DEFAULT_FOLD_IN, rng, out);
   return out;
+}
+
+/** Every two members of one held-out link group in different languages, with their own mixtures. */
+function partnerPairs(docs: readonly MappedDoc[], theta: Float64Array, K: number): MatchedPair[] {
+  const byKey = new Map<string, number[]>();
+  docs.forEach((d, i) => (byKey.get(d.linkKey!) ?? byKey.set(d.linkKey!, []).get(d.linkKey!)!).push(i));
+  const out: MatchedPair[] = [];
+  for (const members of byKey.values()) {
+    for (let x = 0; x < members.length; x++) {
+      for (let y = x + 1; y < members.length; y++) {
+        const a = members[x];
+        const b = members[y];
+        if (docs[a].language === docs[b].language) continue;
+        out.push({ languageA: docs[a].language, languageB: docs[b].language, mixtureA: theta.subarray(a * K, (a + 1) * K), mixtureB: theta.subarray(b * K, (b + 1) * K) });
+      }
+    }
+  }
+  return out;
+}
+
+/**
+ * Glossary rows: the terms of one row in two languages, each read as p(theme | its words) with
+ * the themes' overall weights; null when the study has no glossary rows with known words.
+ */
+function glossaryAlignment(docs: readonly MappedDoc[], model: RunModel): ThemeAlignmentResult | null {
+  const { K } = model;
+  if (docs.length === 0) return null;
+  const weights = new Float64Array(K);
+  for (let g = 0; g < model.thetaGroups.length / K; g++) for (let k = 0; k < K; k++) weights[k] += model.thetaGroups[g * K + k];
+  const rows = new Map<string, { language: number; mixture: Float64Array }[]>();
+  for (const d of docs) {
+    if (d.linkKey === null) continue;
+    const mixture = wordThemeMixture(model.phi[d.language], K, d.tokens, weights);
+    if (mixture) (rows.get(d.linkKey) ?? rows.set(d.linkKey, []).get(d.linkKey)!).push({ language: d.language, mixture });
+  }
+  const pairs: MatchedPair[] = [];
+  for (const terms of rows.values()) {
+    for (let x = 0; x < terms.length; x++) {
+      for (let y = x + 1; y < terms.length; y++) {
+        if (terms[x].language !== terms[y].language) pairs.push({ languageA: terms[x].language, languageB: terms[y].language, mixtureA: terms[x].mixture, mixtureB: terms[y].mixture });
+      }
+    }
+  }
+  return pairs.length > 0 ? themeAlignment(K, model.languages, pairs) : null;
 }

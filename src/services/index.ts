@@ -25,7 +25,7 @@ export { answersTable, shareColumns, type AnswerRow } from './answers-table.js';
 export { toCsv, csvBytes, guardCell } from './csv.js';
 export { foldInDocuments, type FoldInDocument, type FoldInResult } from './fold-in.js';
 export { ensureDemoStudy, DEMO_STUDY_NAME, DEMO_FILE, type DemoOutcome } from './demo.js';
-export { runChecks, type RunChecks } from './checks.js';
+export { runChecks, CHECKS_VERSION, type RunChecks } from './checks.js';
 export {
   planStudyRemoval,
   planRunRemoval,

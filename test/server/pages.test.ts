@@ -95,8 +95,8 @@ describe('the workbench, route by route', () => {
 
   it('lists themes with words per language side by side, and renames a theme (escaped)', async () => {
     const page = await (await get(`/studies/${studyId}/runs/${runId}/themes`)).text();
-    expect(page).toContain('Words · en');
-    expect(page).toContain('Words · es');
+    expect(page).toContain('Top words · en, es');
+    expect(page).toMatch(/<span class="lang">es<\/span>/);
     expect(page).toContain('Themes describe which words occur together');
     const res = await postForm(t, `/studies/${studyId}/runs/${runId}/themes/0/label`, { label: 'Play <script>alert(1)</script>', ...csrf }, { 'HX-Request': 'true' });
     expect(res.status).toBe(200);

@@ -3,6 +3,7 @@
 import { LineChart } from '../charts/index.js';
 import { count, duration, Notice, when } from '../components.js';
 import { CsrfField, Layout, type PageFrame } from '../layout.js';
+import { TiesNoticeSlot } from '../ties-notice.js';
 
 export interface RunRow {
   readonly id: number;
@@ -67,6 +68,7 @@ export function RunsPage(props: {
   return (
     <Layout {...props.frame}>
       <h1>Runs</h1>
+      <TiesNoticeSlot studyId={props.studyId} />
       <p class="lead">A run finds themes in every answer of the study at once, across languages. Runs with different numbers of themes or seeds can be compared below.</p>
       {props.error && <Notice kind="error">{props.error}</Notice>}
       {props.runs.length === 0 ? (
