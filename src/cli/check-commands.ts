@@ -1,7 +1,7 @@
 // checks and compare-k (issue 6 item 6).
 import type { Command } from 'commander';
 import { buildKComparison, type KRunSummary } from '../eval/index.js';
-import { loadRunModel, requireStudy, runChecks, type RunChecks } from '../services/index.js';
+import { loadRunModel, numberSetting, requireStudy, runChecks, type RunChecks } from '../services/index.js';
 import { getRunByName } from '../store/index.js';
 import { InputError } from '../text/types.js';
 import type { CliContext } from './context.js';
@@ -40,19 +40,22 @@ export function registerCheckCommands(program: Command, ctx: CliContext): void {
     });
 
   fitOptions(program.command('compare-k').description('fit several numbers of themes (and seeds) and compare perplexity, coherence and stability'))
-    .requiredOption('--themes <list>', 'numbers of themes, comma-separated (e.g. 10,20,30)')
+    .requiredOption('--themes <list>', `numbers of themes, comma-separated (e.g. 10,20,30; each ${numberSetting('themes').min}–${numberSetting('themes').max})`)
     .option('--seeds <n>', 'seeds per number of themes (default 3)', '3')
     .option('--json', 'print the table as one JSON line')
     .action(async (flags: Omit<FitFlags, 'themes' | 'seed' | 'name'> & { themes: string; seeds: string; json?: boolean }) => {
       const ks = flags.themes.split(',').map((s) => Number(s.trim()));
-      if (ks.some((k) => !Number.isInteger(k) || k < 2)) throw new InputError(`--themes needs whole numbers of at least 2, comma-separated (got "${flags.themes}").`);
+      const themes = numberSetting('themes');
+      if (ks.some((k) => !Number.isInteger(k) || k < themes.min || k > themes.max)) {
+        throw new InputError(`${themes.flag} needs whole numbers from ${themes.min} to ${themes.max}, comma-separated (got "${flags.themes}").`);
+      }
       const seeds = Number(flags.seeds);
       if (!Number.isInteger(seeds) || seeds < 1) throw new InputError(`--seeds needs a whole number of at least 1 (got "${flags.seeds}").`);
       const store = ctx.openStore();
       const summaries: KRunSummary[] = [];
       for (const K of ks) {
         for (let seed = 1; seed <= seeds; seed++) {
-          const d = await fitInProcess(ctx, { ...flags, themes: String(K), seed: String(seed), holdout: flags.holdout ?? '0.1' }, `K=${K} seed ${seed}: `);
+          const d = await fitInProcess(ctx, { ...flags, themes: String(K), seed: String(seed), holdout: flags.holdout ?? String(numberSetting('holdout').suggested) }, `K=${K} seed ${seed}: `);
           const model = loadRunModel(store, getRunByName(store, requireStudy(store, flags.study).id, d.run)!.id)!;
           const c = runChecks(store, model);
           summaries.push({ K, seed, perplexity: c.perplexity?.perplexity ?? NaN, npmi: c.coherence.meanNpmi, logConditional: c.coherence.meanLogConditional, themes: model.phi });

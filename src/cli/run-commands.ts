@@ -5,8 +5,14 @@ import type { Command } from 'commander';
 import {
   applyRun,
   buildBundle,
+  COVARIATES_SETTING,
   createFitRun,
+  flagHelp,
   installationKey,
+  NAME_SETTING,
+  numberSetting,
+  readFitRequest,
+  type NumberSettingName,
   openBundle,
   describeRunContents,
   exportRun,
@@ -15,15 +21,18 @@ import {
   removeRun,
   requireStudy,
   runContrasts,
-  runFitJob,
   SHARES_HEADER,
   type FitDiagnostics,
   type RunModel,
 } from '../services/index.js';
 import { csvBytes, round6, toCsv } from '../services/csv.js';
-import { getRun, getRunByName, getStudy, interruptIfAbandoned, setRunProgress, setRunStatus, touchRunHeartbeat, type Run, type Store } from '../store/index.js';
+import { runFitInProcess } from '../jobs/index.js';
+import { getRun, getRunByName, getStudy, interruptIfAbandoned, type Run, type RunProgress, type Store } from '../store/index.js';
 import { InputError } from '../text/types.js';
 import { scannerFromSetting, scanUpload } from '../services/scan-upload.js';
+import { exportFiles, exportTables } from '../services/export-run.js';
+import { exportWorkbook } from '../services/export-workbook.js';
+import { describeCovariateNote } from '../services/apply-covariates.js';
 import { removalOptions, reportRemoval } from './study-commands.js';
 import { collect, mappingFromFlags, mappingOptions, parseNumber, readInputFile, type CliContext, type MappingFlags } from './context.js';
 
@@ -53,72 +62,51 @@ export interface FitFlags {
 
 /** Create and run one fit in this process, with a progress bar; returns its diagnostics. */
 export async function fitInProcess(ctx: CliContext, flags: FitFlags, label = ''): Promise<FitDiagnostics> {
-  const run = createFitRun(ctx.openStore(), flags.study, {
-    themes: parseNumber('--themes', flags.themes)!,
-    sweeps: parseNumber('--sweeps', flags.sweeps),
-    burnIn: parseNumber('--burn-in', flags.burnIn),
-    seed: parseNumber('--seed', flags.seed),
-    threads: parseNumber('--threads', flags.threads),
-    covariates: flags.covariate,
-    holdout: parseNumber('--holdout', flags.holdout, 'float'),
-    ...(flags.name ? { name: flags.name } : {}),
-    ...(flags.checkpointEvery !== undefined ? { checkpointEvery: parseNumber('--checkpoint-every', flags.checkpointEvery) } : {}),
-  });
+  // Every setting is read, bounded and defaulted by the one settings schema (services), in flags' words.
+  const request = readFitRequest(
+    { themes: flags.themes, sweeps: flags.sweeps, burnIn: flags.burnIn, seed: flags.seed, threads: flags.threads, holdout: flags.holdout, checkpointEvery: flags.checkpointEvery, covariates: flags.covariate, name: flags.name },
+    'flag',
+  );
+  const run = createFitRun(ctx.openStore(), flags.study, request, { wording: 'flag' });
   return executeRun(ctx, run, label);
+}
+
+/** What the progress bar says about the phase a fit is in (src/services fit-job.ts phases). */
+function phaseText(p: RunProgress): string {
+  const phase = typeof p.phase === 'string' ? p.phase : 'starting';
+  return typeof p.step === 'string' ? `${phase}: ${p.step}` : phase;
 }
 
 /** Run (or continue from its last checkpoint) a stored run in this process. */
 export async function executeRun(ctx: CliContext, run: Run, label = ''): Promise<FitDiagnostics> {
   const store = ctx.openStore();
-  const bar = ctx.progressBar(`${label}sweep {value}/{total} |{bar}| {speed} tokens/s | log-lik/token {ll} | {left} left`);
+  const bar = ctx.progressBar(`${label}{phase} | sweep {value}/{total} |{bar}| {speed} tokens/s | log-lik/token {ll} | {left} left`);
   let stop = false;
   const onSignal = () => {
     stop = true;
   };
   process.once('SIGINT', onSignal);
-  setRunStatus(store, run.id, 'running');
   try {
-    let lastWrite = 0;
-    let trace: number[] = [];
-    const outcome = await runFitJob({
+    const outcome = await runFitInProcess({
       store,
       runId: run.id,
       shouldStop: () => stop,
-      onStart: (from) => {
-        if (from !== null) trace = (run.progress.trace ?? []).slice(0, from);
-        bar.start(run.settings.sweeps, from ?? 0, { speed: '-', ll: '-', left: '-' });
-      },
-      onProgress: (p) => {
-        if (p.phase !== 'sampling') {
-          // A sign of life while the corpus is read, so `resume` elsewhere knows the run is alive.
-          touchRunHeartbeat(store, run.id);
-          return;
-        }
-        if (typeof p.logLikelihoodPerToken === 'number') trace.push(p.logLikelihoodPerToken);
-        bar.update(p.sweep ?? 0, {
-          speed: Math.round(Number(p.tokensPerSecond ?? 0)).toLocaleString('en'),
-          ll: Number(p.logLikelihoodPerToken ?? NaN).toFixed(4),
-          left: formatSeconds(Number(p.secondsLeft ?? 0)),
-        });
-        if (Date.now() - lastWrite > 1000) {
-          lastWrite = Date.now();
-          setRunProgress(store, run.id, { ...p, trace });
-        }
-      },
+      onStart: (from) => bar.start(run.settings.sweeps, from ?? 0, { phase: 'preparing corpus', speed: '-', ll: '-', left: '-' }),
+      onProgress: (p) =>
+        bar.update(Number(p.sweep ?? 0), {
+          phase: phaseText(p),
+          speed: typeof p.tokensPerSecond === 'number' ? Math.round(p.tokensPerSecond).toLocaleString('en') : '-',
+          ll: typeof p.logLikelihoodPerToken === 'number' ? p.logLikelihoodPerToken.toFixed(4) : '-',
+          left: typeof p.secondsLeft === 'number' ? formatSeconds(p.secondsLeft) : '-',
+        }),
     });
     bar.stop();
-    if (outcome.stopped) {
-      setRunStatus(store, run.id, 'interrupted', null, { from: ['running'] });
+    if (outcome.status !== 'finished' || !outcome.diagnostics) {
       throw new InputError(`Fit "${run.name}" stopped at your request; continue it with: themata resume --study "${getStudy(store, run.studyId)?.name}" --run "${run.name}".`);
     }
-    // runFitJob stored the results, the final progress and status 'finished' in one transaction.
-    return outcome.diagnostics!;
-  } catch (error) {
-    bar.stop();
-    // Guarded: a run that finished (or was deleted) meanwhile keeps what it is.
-    setRunStatus(store, run.id, 'failed', error instanceof Error ? error.message : String(error), { from: ['running'] });
-    throw error;
+    return outcome.diagnostics;
   } finally {
+    bar.stop();
     process.removeListener('SIGINT', onSignal);
   }
 }
@@ -129,22 +117,24 @@ function formatSeconds(s: number): string {
   return m > 0 ? `${m}m${String(Math.round(s % 60)).padStart(2, '0')}s` : `${Math.round(s)}s`;
 }
 
+/** The flag `--name` of a numeric setting with its value placeholder. */
+function flagOf(name: NumberSettingName): string {
+  const spec = numberSetting(name);
+  return `${spec.flag} <${spec.kind === 'share' ? 'share' : 'n'}>`;
+}
+
+/** The settings every fitting command shares, their help read from the settings schema. */
 export function fitOptions(cmd: Command): Command {
-  return cmd
-    .requiredOption('--study <name>', 'study name')
-    .option('--sweeps <n>', 'Gibbs sweeps (default 500)')
-    .option('--burn-in <n>', 'sweeps before samples are kept (default a fifth, at most 200)')
-    .option('--threads <t>', 'threads for parallel sweeps (default 1)')
-    .option('--covariate <col>', 'metadata column the theme prior depends on (repeat)', collect, [])
-    .option('--holdout <share>', 'share of answers held out for the checks (e.g. 0.1)')
-    .option('--checkpoint-every <n>', 'save a checkpoint every n sweeps, to resume from after a crash (default 50; 0 = never)');
+  cmd.requiredOption('--study <name>', 'study name');
+  for (const name of ['sweeps', 'burnIn', 'threads', 'holdout', 'checkpointEvery'] as const) cmd.option(flagOf(name), flagHelp(numberSetting(name)));
+  return cmd.option(`${COVARIATES_SETTING.flag} <col>`, 'metadata column the theme prior depends on (repeat)', collect, []);
 }
 
 export function registerRunCommands(program: Command, ctx: CliContext): void {
   fitOptions(program.command('fit').description('fit a theme model to a study; prints one JSON line with the diagnostics'))
-    .requiredOption('--themes <k>', 'number of themes')
-    .option('--seed <s>', 'random seed (default 1)')
-    .option('--name <run>', 'run name (default k<K>-seed<S>)')
+    .requiredOption(flagOf('themes'), flagHelp(numberSetting('themes')))
+    .option(flagOf('seed'), flagHelp(numberSetting('seed')))
+    .option(`${NAME_SETTING.flag} <run>`, `run name, new in the study (default k<K>-seed<S>; at most ${NAME_SETTING.maxLength} characters)`)
     .action(async (flags: FitFlags) => {
       const d = await fitInProcess(ctx, flags);
       const { trace, ...rest } = d;
@@ -180,14 +170,19 @@ export function registerRunCommands(program: Command, ctx: CliContext): void {
 
   program
     .command('export')
-    .description('write answers-by-theme.csv, theme-words.csv, theme-shares-by-group.csv, codebook.json and the saved-run bundle')
+    .description('write answers-by-theme.csv, theme-words.csv, theme-shares-by-group.csv, theme-tables.xlsx, codebook.json and the saved-run bundle')
     .requiredOption('--study <name>', 'study name')
     .requiredOption('--run <name>', 'run name')
     .requiredOption('--out <dir>', 'folder to write into (created if missing)')
     .option('--draws <n>', 'bootstrap draws for the group intervals (default 1000)')
-    .action(async (flags: { study: string; run: string; out: string; draws?: string }) => {
-      const model = requireRunModel(ctx.openStore(), flags.study, flags.run);
-      const files = exportRun(ctx.openStore(), model, { draws: parseNumber('--draws', flags.draws) });
+    .option('--no-answer-text', "leave each answer's text out of answers-by-theme.csv and the workbook (ids, groups and shares only)")
+    .option('--no-workbook', 'do not write theme-tables.xlsx (the same tables as one spreadsheet workbook, one sheet each)')
+    .action(async (flags: { study: string; run: string; out: string; draws?: string; answerText: boolean; workbook: boolean }) => {
+      const store = ctx.openStore();
+      const model = requireRunModel(store, flags.study, flags.run);
+      const tables = exportTables(store, model, { draws: parseNumber('--draws', flags.draws), answerText: flags.answerText });
+      const files = exportFiles(store, model, tables);
+      if (flags.workbook) files.push(await exportWorkbook(tables));
       await mkdir(flags.out, { recursive: true });
       for (const f of files) {
         await writeFile(join(flags.out, f.name), f.bytes);
@@ -207,8 +202,9 @@ export function registerRunCommands(program: Command, ctx: CliContext): void {
       .option('--trust-bundle', 'use a bundle saved by another Themata installation, or an unsigned one from an older Themata, after you have checked where it came from'),
   )
     .option('--seed <s>', 'random seed of the fold-in (default 1)')
+    .option('--no-answer-text', "leave each answer's text out of the coded file")
     .option('--scan-command <command>', 'virus scanner the file of new answers is piped to before it is read (as for import; overrides THEMATA_SCAN_COMMAND)')
-    .action(async (file: string, flags: MappingFlags & { out: string; study?: string; run?: string; bundle?: string; trustBundle?: boolean; sheet?: string; seed?: string; scanCommand?: string }) => {
+    .action(async (file: string, flags: MappingFlags & { out: string; study?: string; run?: string; bundle?: string; trustBundle?: boolean; sheet?: string; seed?: string; scanCommand?: string; answerText: boolean }) => {
       let bundle;
       if (flags.bundle) {
         const b = await readInputFile(flags.bundle);
@@ -229,12 +225,15 @@ export function registerRunCommands(program: Command, ctx: CliContext): void {
         ...(flags.text.length ? { mapping: mappingFromFlags(flags) } : {}),
         ...(flags.sheet ? { sheet: flags.sheet } : {}),
         seed: parseNumber('--seed', flags.seed),
+        answerText: flags.answerText,
       });
       await writeFile(flags.out, out.bytes);
       const left = Object.entries(summary.excluded).map(([reason, n]) => `${n} ${reason}`);
       ctx.err(
         `Coded ${summary.coded} of ${summary.answers} answers (${[`${summary.otherLanguage} in another or no language`, ...left, `${summary.noKnownWords} with no known word`].join(', ')}; ${Math.round(summary.unknownWordShare * 100)}% of words unknown to the run).`,
       );
+      if (summary.missingColumns.length) ctx.err(`Not in the file, so not used: ${summary.missingColumns.map((m) => `"${m.column}" (${m.role})`).join(', ')}.`);
+      for (const note of summary.covariateNotes) ctx.err(describeCovariateNote(note));
       ctx.out(flags.out);
     });
 

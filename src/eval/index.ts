@@ -36,3 +36,4 @@ export {
   type ThemeAlignmentCell,
   type ThemeAlignmentResult,
 } from './theme-alignment.js';
+export { heldOutGroups } from './held-out-split.js';

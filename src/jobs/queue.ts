@@ -12,15 +12,15 @@ import {
   interruptAbandonedRuns,
   listRunsByStatus,
   processIsAlive,
-  setRunProgress,
   setRunStatus,
   type RunProgress,
   type RunStatus,
   type Store,
 } from '../store/index.js';
 import { InputError } from '../text/types.js';
-import type { FromWorker } from './messages.js';
 import { startTypeScriptWorker } from '../platform/index.js';
+import type { FromWorker } from './messages.js';
+import { RunTracker } from './run-tracker.js';
 
 export type JobEvent =
   | { runId: number; kind: 'status'; status: RunStatus; error: string | null }
@@ -50,14 +50,9 @@ export type FitRequester = number | null;
 interface Active {
   worker: Worker;
   cancelling: boolean;
-  settled: boolean;
-  lastWrite: number;
-  progress: RunProgress;
-  trace: number[];
+  tracker: RunTracker;
   killTimer?: NodeJS.Timeout;
 }
-
-const TRACE_LIMIT = 5000; // common practice: enough points for any chart, bounded memory
 
 export class JobQueue {
   readonly concurrency: number;
@@ -173,7 +168,7 @@ export class JobQueue {
       runIds.map(async (runId) => {
         const a = this.active.get(runId);
         if (!a) return;
-        a.settled = true;
+        a.tracker.abandon();
         if (a.killTimer) clearTimeout(a.killTimer);
         this.active.delete(runId);
         await a.worker.terminate();
@@ -196,7 +191,7 @@ export class JobQueue {
   /** Latest progress of a running fit (with its likelihood trace), if it is running here. */
   progress(runId: number): RunProgress | undefined {
     const a = this.active.get(runId);
-    return a ? { ...a.progress, trace: a.trace.slice() } : undefined;
+    return a?.tracker.snapshot();
   }
 
   /** Listen to one run's events (or every run's with runId = null). Returns an unsubscribe. */
@@ -224,7 +219,7 @@ export class JobQueue {
   async close(): Promise<void> {
     this.closed = true;
     const stopping = [...this.active.entries()].map(async ([runId, a]) => {
-      a.settled = true;
+      a.tracker.abandon();
       if (a.killTimer) clearTimeout(a.killTimer);
       await a.worker.terminate();
       setRunStatus(this.store, runId, 'interrupted', null, { from: ['running'] });
@@ -254,7 +249,7 @@ export class JobQueue {
   private launch(runId: number): void {
     setRunStatus(this.store, runId, 'running');
     const worker = startTypeScriptWorker(this.workerUrl, { dataDir: this.store.dataDir, runId, options: this.workerOptions });
-    const a: Active = { worker, cancelling: false, settled: false, lastWrite: 0, progress: {}, trace: [] };
+    const a: Active = { worker, cancelling: false, tracker: new RunTracker(this.store, runId, this.progressWriteMs) };
     this.active.set(runId, a);
     this.emit({ runId, kind: 'status', status: 'running', error: null });
     worker.on('message', (msg: FromWorker) => this.onMessage(runId, a, msg));
@@ -268,28 +263,11 @@ export class JobQueue {
   private onMessage(runId: number, a: Active, msg: FromWorker): void {
     switch (msg.type) {
       case 'started':
-        // A resumed fit continues the likelihood trace of the sweeps its checkpoint holds.
-        if (msg.resumedFromSweep !== null) a.trace = (getRun(this.store, runId)?.progress.trace ?? []).slice(0, msg.resumedFromSweep);
+        a.tracker.started(msg.resumedFromSweep);
         break;
-      case 'progress': {
-        const p = msg.progress;
-        if (Array.isArray(p.trace)) a.trace = p.trace.slice(-TRACE_LIMIT);
-        // One trace point per sweep: closing or phase messages that repeat a sweep are not added.
-        else if (typeof p.logLikelihoodPerToken === 'number' && Number.isFinite(p.logLikelihoodPerToken) && p.sweep === a.trace.length + 1) {
-          a.trace.push(p.logLikelihoodPerToken);
-          if (a.trace.length > TRACE_LIMIT) a.trace.splice(0, a.trace.length - TRACE_LIMIT);
-        }
-        // Merge, so a field the last message left out (e.g. speed in the closing message) stays shown.
-        a.progress = { ...a.progress, ...p };
-        delete a.progress.trace;
-        const nowMs = Date.now();
-        if (nowMs - a.lastWrite >= this.progressWriteMs) {
-          a.lastWrite = nowMs;
-          this.writeProgress(runId, a);
-        }
-        this.emit({ runId, kind: 'progress', progress: { ...a.progress, trace: a.trace.slice() } });
+      case 'progress':
+        this.emit({ runId, kind: 'progress', progress: a.tracker.progress(msg.progress) });
         break;
-      }
       case 'finished':
         this.settle(runId, a, 'finished', null);
         break;
@@ -302,27 +280,11 @@ export class JobQueue {
     }
   }
 
-  private writeProgress(runId: number, a: Active): void {
-    try {
-      setRunProgress(this.store, runId, { ...a.progress, trace: a.trace.slice() });
-    } catch {
-      // A busy database must not stop the fit; the next progress message writes again.
-    }
-  }
-
-  /**
-   * The worker is done. The status changes only while the run is still 'running': the fit marks
-   * its run 'finished' together with its results, so a cancel or a kill that lands in the short
-   * summary window afterwards leaves it finished, and the event tells what the run really is.
-   */
+  /** The worker is done: the tracker changes the status (guarded, see run-tracker.ts). */
   private settle(runId: number, a: Active, status: RunStatus, error: string | null): void {
-    if (a.settled) return;
-    a.settled = true;
+    if (a.tracker.isSettled) return;
     if (a.killTimer) clearTimeout(a.killTimer);
-    const current = getRun(this.store, runId);
-    if (current?.status === 'running') this.writeProgress(runId, a);
-    setRunStatus(this.store, runId, status, error, { from: ['running'] });
-    const after = getRun(this.store, runId);
+    const after = a.tracker.settle(status, error);
     this.active.delete(runId);
     void a.worker.terminate();
     if (after) this.emit({ runId, kind: 'status', status: after.status, error: after.error });

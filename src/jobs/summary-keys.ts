@@ -1,8 +1,3 @@
-// Names of the run summaries the fit worker stores beside the fit results.
-
-/** Bootstrap × posterior draws for stored group contrasts (common practice for 95% percentile intervals). */
-export const CONTRAST_DRAWS = 1000;
-
-export function contrastKey(covariate: string): string {
-  return `contrast:${covariate}`;
-}
+// Names of the run summaries stored beside the fit results; defined with the summaries in
+// src/services/run-summaries.ts and re-exported here for the readers of the jobs layer.
+export { CONTRAST_DRAWS, contrastKey } from '../services/index.js';

@@ -1,85 +1,48 @@
-// Running a fit for a stored run: build the corpus from the study's documents, hold out a share
-// of link groups for the checks, fit, and store the results in one transaction. Takes a data
-// folder (or an open store) and plain settings so the same function runs in the CLI process and
-// in a worker thread (src/jobs), reporting progress through a callback.
-import { buildCorpus } from '../model/corpus.js';
-import { buildGroupFeatures, type GroupFeatures } from '../model/features.js';
-import { Xoshiro128 } from '../model/rng.js';
-import {
-  clearCheckpoints,
-  covariateLevels,
-  createRun,
-  getRun,
-  getStudy,
-  getStudyByName,
-  inTransaction,
-  isBusyError,
-  latestCheckpoint,
-  listDocumentTokens,
-  loadVocabulary,
-  markRunFinished,
-  openStore,
-  saveCheckpoint,
-  saveResults,
-  uniqueRunName,
-  withBusyRetry,
-  type ResultValue,
-  type Run,
-  type RunProgress,
-  type RunSettings,
-  type Store,
-  type StoredResult,
-} from '../store/index.js';
+// Creating a fit: a run of a study with its settings checked and completed from the one settings
+// schema (run-settings-schema.ts), refused with a message in the words of the place the person
+// is (a flag on the command line, a field on the Runs page) when a setting is out of bounds, a
+// covariate or the study is unknown, the name is taken, or the study has no answers to fit.
+// Running it is fit-job.ts; the lifecycle around it (status, progress, workers) is src/jobs.
+import { covariateLevels, createRun, getRunByName, getStudy, getStudyByName, languageSummary, uniqueRunName, type Run, type RunSettings, type Store } from '../store/index.js';
 import { InputError } from '../text/types.js';
-import { fitCorpus, type FitOutput } from './fit-engine.js';
+import {
+  checkRunSettings,
+  COVARIATES_SETTING,
+  NAME_SETTING,
+  runSettingsOf,
+  settingWord,
+  type FitRequest,
+  type SettingLimits,
+  type Wording,
+} from './run-settings-schema.js';
 
-export interface FitRequest {
-  themes: number;
-  sweeps?: number;
-  burnIn?: number;
-  seed?: number;
-  threads?: number;
-  covariates?: string[];
-  holdout?: number;
-  name?: string;
-  /** Checkpoint every this many sweeps (default 50). */
-  checkpointEvery?: number;
-  /** 'fast' (default) or 'reference' (the plain O(K) sampler) on one thread. */
-  sampler?: 'fast' | 'reference';
-}
+export type { FitRequest } from './run-settings-schema.js';
+// Running a fit lives in fit-job.ts; re-exported here for the callers of the one fit module.
+export { runFitJob, prepareCorpus, type FitJobOptions, type FitJobOutcome, type PreparedCorpus } from './fit-job.js';
+export type { FitDiagnostics } from './fit-results.js';
 
-/** Settings with defaults filled in: 500 sweeps, a fifth of them burn-in (common practice). */
+/** Settings with defaults filled in (run-settings-schema.ts has every default and its source). */
 export function fitSettings(request: FitRequest): RunSettings {
-  const sweeps = Math.floor(request.sweeps ?? 500);
-  const burnIn = Math.floor(request.burnIn ?? Math.min(Math.floor(sweeps / 5), 200));
-  return {
-    themes: Math.floor(request.themes),
-    sweeps,
-    burnIn,
-    seed: Math.floor(request.seed ?? 1) >>> 0,
-    threads: Math.max(1, Math.floor(request.threads ?? 1)),
-    covariates: request.covariates ?? [],
-    holdout: request.holdout ?? 0,
-    // About 50 saved samples over the run, at least every 10th sweep (common practice).
-    sampleEvery: Math.max(1, Math.min(10, Math.floor((sweeps - burnIn) / 50))),
-    maxSamples: 20,
-    checkpointEvery: Math.max(0, Math.floor(request.checkpointEvery ?? 50)),
-    sampler: request.sampler ?? 'fast',
-  };
+  return runSettingsOf(request);
 }
 
-/** Check a fit request against the study; throws an InputError a researcher can act on. */
-export function validateFit(store: Store, studyId: number, settings: RunSettings): void {
-  const K = settings.themes;
-  if (!Number.isInteger(K) || K < 2 || K > 1000) throw new InputError(`--themes must be a whole number from 2 to 1000 (got ${settings.themes}).`);
-  if (!(settings.sweeps >= 1)) throw new InputError(`--sweeps must be at least 1 (got ${settings.sweeps}).`);
-  if (!(settings.burnIn >= 0 && settings.burnIn < settings.sweeps)) throw new InputError(`--burn-in must be at least 0 and below --sweeps (${settings.sweeps}); got ${settings.burnIn}.`);
-  if (!(settings.holdout >= 0 && settings.holdout < 0.9)) throw new InputError(`--holdout is a share of answers from 0 to 0.9 (got ${settings.holdout}).`);
+export interface FitPlace {
+  /** Words of the messages: flags (command line, the default) or field labels (workbench). */
+  wording?: Wording;
+  /** Bounds that depend on the place, e.g. the server's cores for threads. */
+  limits?: SettingLimits;
+}
+
+/** Check a fit's settings against the schema and the study; throws an InputError a researcher can act on. */
+export function validateFit(store: Store, studyId: number, settings: RunSettings, place: FitPlace = {}): void {
+  const wording = place.wording ?? 'flag';
+  checkRunSettings(settings, wording, place.limits);
   const levels = covariateLevels(store, studyId, 1);
   for (const c of settings.covariates) {
     if (!(c in levels)) {
       const known = Object.keys(levels);
-      throw new InputError(`The study has no covariate "${c}". ${known.length ? `Known covariates: ${known.join(', ')}.` : 'Import the file with --covariate COL first.'}`);
+      const how = wording === 'flag' ? 'Import the file with --covariate COL first.' : 'Import the file again with a group column first.';
+      throw new InputError(`The study has no covariate "${c}" (${settingWord(COVARIATES_SETTING, wording)}). ${known.length ? `Known covariates: ${known.join(', ')}.` : how}`);
     }
   }
 }
@@ -91,190 +54,38 @@ export function requireStudy(store: Store, study: string | number) {
   return found;
 }
 
+/** Answers of the study a fit would use (included, in a language). */
+export function answersToFit(store: Store, studyId: number): number {
+  return languageSummary(store, studyId).reduce((n, row) => n + (row.language === null ? 0 : row.included), 0);
+}
+
 /** Create a queued run for a study after checking the request. */
-export function createFitRun(store: Store, study: string | number, request: FitRequest): Run {
+export function createFitRun(store: Store, study: string | number, request: FitRequest, place: FitPlace = {}): Run {
+  const wording = place.wording ?? 'flag';
   const s = requireStudy(store, study);
-  const settings = fitSettings(request);
-  validateFit(store, s.id, settings);
-  const name = request.name?.trim() || uniqueRunName(store, s.id, `k${settings.themes}-seed${settings.seed}`);
-  return createRun(store, { studyId: s.id, name, settings });
-}
-
-export interface FitJobOptions {
-  /** Open store, or a data folder to open (and close) here — what a worker thread passes. */
-  store?: Store;
-  dataDir?: string;
-  runId: number;
-  onStart?: (resumedFromSweep: number | null) => void;
-  onProgress?: (progress: RunProgress) => void;
-  shouldStop?: () => boolean;
-}
-
-export interface FitJobOutcome {
-  stopped: boolean;
-  diagnostics: FitDiagnostics | null;
-}
-
-export interface FitDiagnostics {
-  run: string;
-  themes: number;
-  sweeps: number;
-  sampler: string;
-  documents: number;
-  groups: number;
-  tokens: number;
-  heldOutDocuments: number;
-  languages: string[];
-  seconds: number;
-  tokensPerSecond: number;
-  logLikelihoodPerToken: number;
-  trace: number[];
-}
-
-/**
- * Run the fit of a stored run to the end (or until shouldStop) and store its results; the run
- * becomes 'finished' in the same transaction as its results.
- */
-export async function runFitJob(options: FitJobOptions): Promise<FitJobOutcome> {
-  const store = options.store ?? openStore(options.dataDir ?? './data');
-  try {
-    const run = getRun(store, options.runId);
-    if (!run) throw new Error(`No run with id ${options.runId}.`);
-    const checkpoint = latestCheckpoint(store, run.id);
-    options.onStart?.(checkpoint ? checkpoint.sweep : null);
-    options.onProgress?.({ phase: 'preparing', sweep: checkpoint?.sweep ?? 0, sweeps: run.settings.sweeps });
-    const prepared = prepareCorpus(store, run);
-    const s = run.settings;
-    const out = await fitCorpus(
-      prepared.corpus,
-      prepared.features,
-      {
-        K: s.themes,
-        sweeps: s.sweeps,
-        burnIn: s.burnIn,
-        seed: s.seed,
-        threads: s.threads,
-        sampleEvery: Number(s.sampleEvery ?? 5),
-        maxSamples: Number(s.maxSamples ?? 20),
-        checkpointEvery: Number(s.checkpointEvery ?? 50),
-        sampler: s.sampler === 'reference' ? 'reference' : 'fast',
-      },
-      {
-        onSweep: (r) => options.onProgress?.({ phase: 'sampling', ...r }),
-        shouldStop: options.shouldStop,
-        onCheckpoint: (sweep, bytes) => {
-          try {
-            saveCheckpoint(store, run.id, sweep, bytes);
-          } catch (error) {
-            // A busy database (a long import) must not stop the fit: the next checkpoint will do.
-            if (!isBusyError(error)) throw error;
-          }
-        },
-        ...(checkpoint ? { resumeFrom: checkpoint.bytes } : {}),
-      },
+  const settings = runSettingsOf(request);
+  validateFit(store, s.id, settings, place);
+  if (answersToFit(store, s.id) === 0) {
+    throw new InputError(
+      `Study "${s.name}" has no answers to fit yet. ` +
+        (wording === 'flag'
+          ? `Import a file with answers first (themata import FILE --study "${s.name}" --text COLUMN), or check \`themata languages\` and \`themata vocabulary\` for answers left out.`
+          : 'Import a file with answers on the Data page first, or check the Languages and Vocabulary pages for answers left out.'),
     );
-    if (out.stopped) return { stopped: true, diagnostics: null };
-    const diagnostics = storeFit(store, run, prepared, out);
-    options.onProgress?.({ phase: 'finished', sweep: out.sweepsDone, sweeps: s.sweeps, logLikelihoodPerToken: diagnostics.logLikelihoodPerToken, secondsLeft: 0 });
-    return { stopped: false, diagnostics };
-  } finally {
-    if (!options.store) store.close();
   }
-}
-
-export interface PreparedCorpus {
-  corpus: ReturnType<typeof buildCorpus>['corpus'];
-  languages: string[];
-  /** Corpus document index → document id. */
-  documentIds: Int32Array;
-  heldOutIds: Int32Array;
-  vocabularies: { stems: string[]; surfaces: string[] }[];
-  /** Covariate features per link group (first member's covariates), or null without covariates. */
-  features: GroupFeatures | null;
-}
-
-/** The study's included documents as a corpus, minus a seeded held-out share of link groups. */
-export function prepareCorpus(store: Store, run: Run): PreparedCorpus {
-  const docs = listDocumentTokens(store, run.studyId).filter((d) => d.tokens.length > 0);
-  if (docs.length === 0) throw new InputError('The study has no answers with words to fit. Import a file first, or check the Languages and Vocabulary pages for exclusions.');
-  const languages = [...new Set(docs.map((d) => d.language))].sort();
-  const vocabularies = languages.map((l) => loadVocabulary(store, run.studyId, l));
-  // Hold out whole link groups so a held-out answer's translation is not in the training data.
-  const groupKey = (d: (typeof docs)[number]) => d.linkKey ?? `#${d.id}`;
-  const heldOut = new Set<string>();
-  if (run.settings.holdout > 0) {
-    const rng = Xoshiro128.fromSeed(run.settings.seed, 7919);
-    for (const key of new Set(docs.map(groupKey))) if (rng.nextDouble() < run.settings.holdout) heldOut.add(key);
+  const given = request.name?.trim();
+  if (given !== undefined && given.length > NAME_SETTING.maxLength) {
+    throw new InputError(`${settingWord(NAME_SETTING, wording)} may be at most ${NAME_SETTING.maxLength} characters (got ${given.length}).`);
   }
-  const train = docs.filter((d) => !heldOut.has(groupKey(d)));
-  if (train.length === 0) throw new InputError('Every answer was held out; lower --holdout.');
-  const langIndex = new Map(languages.map((l, i) => [l, i]));
-  const built = buildCorpus({
-    languages,
-    vocabSizes: vocabularies.map((v) => v.stems.length),
-    documents: train.map((d) => ({ language: langIndex.get(d.language)!, tokens: d.tokens, linkKey: d.linkKey })),
-  });
-  const documentIds = Int32Array.from(built.docOrder, (i) => train[i].id);
-  const heldOutIds = Int32Array.from(docs.filter((d) => heldOut.has(groupKey(d))).map((d) => d.id));
-  const specs = covariateSpecs(store, run);
-  const features = specs.length ? buildGroupFeatures(Array.from(built.groupFirstInput, (i) => train[i].covariates), specs) : null;
-  return { corpus: built.corpus, languages, documentIds, heldOutIds, vocabularies: vocabularies.map((v) => ({ stems: v.stems, surfaces: v.surfaces })), features };
-}
-
-/** Covariates of the run with their types (numeric when every observed value is a number). */
-function covariateSpecs(store: Store, run: Run): { column: string; type: 'categorical' | 'numeric' }[] {
-  if (run.settings.covariates.length === 0) return [];
-  const levels = covariateLevels(store, run.studyId, 1);
-  return run.settings.covariates.map((column) => ({ column, type: levels[column]?.numeric ? 'numeric' : 'categorical' }));
-}
-
-function storeFit(store: Store, run: Run, p: PreparedCorpus, out: FitOutput): FitDiagnostics {
-  const K = out.K;
-  const G = p.corpus.numGroups;
-  const last = out.trace.length ? out.trace[out.trace.length - 1] : NaN;
-  const diagnostics: FitDiagnostics = {
-    run: run.name,
-    themes: K,
-    sweeps: out.sweepsDone,
-    sampler: out.sampler,
-    documents: p.documentIds.length,
-    groups: G,
-    tokens: out.tokens,
-    heldOutDocuments: p.heldOutIds.length,
-    languages: p.languages,
-    seconds: Math.round(out.seconds * 1000) / 1000,
-    tokensPerSecond: Math.round(out.tokensPerSecond),
-    logLikelihoodPerToken: last,
-    trace: out.trace,
-  };
-  const samples = new Float32Array(out.thetaSamples.length * G * K);
-  out.thetaSamples.forEach((s, i) => samples.set(s, i * G * K));
-  const entries: Record<string, ResultValue | StoredResult> = {
-    layout: { json: { K, languages: p.languages, vocabSizes: p.vocabularies.map((v) => v.stems.length), groups: G, documents: p.documentIds.length, covariates: run.settings.covariates } },
-    documentIds: p.documentIds,
-    heldOutIds: p.heldOutIds,
-    docGroup: p.corpus.docGroup,
-    thetaGroups: { value: out.thetaGroups, shape: [G, K] },
-    thetaSamples: { value: samples, shape: [out.thetaSamples.length, G, K] },
-    alpha: { value: out.alpha, shape: [out.alpha.length / K, K] },
-    groupPattern: out.groupPattern,
-    beta: out.beta,
-    diagnostics: { json: diagnostics },
-  };
-  entries.lambda = { value: out.lambda, shape: [K, out.lambda.length / K] };
-  entries.features = { json: { names: out.featureNames, encoding: out.encoding } };
-  p.languages.forEach((lang, l) => {
-    entries[`phi:${lang}`] = { value: out.phi[l], shape: [K, p.vocabularies[l].stems.length] };
-    entries[`vocabulary:${lang}`] = { json: p.vocabularies[l] };
-  });
-  // Results, status and final progress in one transaction: a kill between them would leave a run
-  // that is not finished but has no checkpoint left to resume from.
-  withBusyRetry(() =>
-    inTransaction(store, () => {
-      saveResults(store, run.id, entries);
-      clearCheckpoints(store, run.id);
-      markRunFinished(store, run.id, { phase: 'finished', sweep: out.sweepsDone, sweeps: run.settings.sweeps, logLikelihoodPerToken: last, secondsLeft: 0, trace: out.trace });
-    }),
-  );
-  return diagnostics;
+  if (given && getRunByName(store, s.id, given)) {
+    throw new InputError(`Study "${s.name}" has a run called "${given}" already. Choose another ${settingWord(NAME_SETTING, wording)}, or remove that run first.`);
+  }
+  const name = given || uniqueRunName(store, s.id, `k${settings.themes}-seed${settings.seed}`);
+  try {
+    return createRun(store, { studyId: s.id, name, settings });
+  } catch (error) {
+    // Another process took the name between the check and the insert.
+    if (error instanceof Error && /UNIQUE/.test(error.message)) throw new InputError(`Study "${s.name}" has a run called "${name}" already. Choose another ${settingWord(NAME_SETTING, wording)}.`);
+    throw error;
+  }
 }

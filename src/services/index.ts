@@ -3,18 +3,26 @@
 export { importFile, type ImportOptions, type ImportSummary, type ImportProgress } from './import-file.js';
 export { rebuildVocabulary, type VocabularyRebuild } from './vocabulary.js';
 export { importGlossary, listGlossaries, glossaryTermsByLanguage, glossaryLinkKey, type GlossaryOptions, type GlossarySummary, type GlossaryListing } from './glossary.js';
+export { fitSettings, validateFit, createFitRun, requireStudy, answersToFit, type FitRequest, type FitPlace } from './fit-run.js';
+export { runFitJob, prepareCorpus, FIT_PHASES, type FitPhase, type FitJobOptions, type FitJobOutcome, type PreparedCorpus, type FitDiagnostics } from './fit-job.js';
+export { CONTRAST_DRAWS, contrastKey, computeRunSummaries, summarySteps, type SummaryHooks } from './run-summaries.js';
 export {
-  fitSettings,
-  validateFit,
-  createFitRun,
-  requireStudy,
-  runFitJob,
-  prepareCorpus,
-  type FitRequest,
-  type FitJobOptions,
-  type FitJobOutcome,
-  type FitDiagnostics,
-} from './fit-run.js';
+  NUMBER_SETTINGS,
+  COVARIATES_SETTING,
+  NAME_SETTING,
+  numberSetting,
+  settingWord,
+  readFitRequest,
+  runSettingsOf,
+  checkRunSettings,
+  modelSettingsOf,
+  defaultBurnIn,
+  flagHelp,
+  type NumberSettingName,
+  type NumberSettingSpec,
+  type SettingLimits,
+  type Wording,
+} from './run-settings-schema.js';
 export { loadRunModel, themeWords, documentMixtures, overallShares, dominantTheme, themeLabel, type RunModel, type ThemeWord } from './run-model.js';
 export { runContrasts, contrastCovariates, SHARES_HEADER, type ContrastRequest } from './contrasts.js';
 export { exportRun, buildBundle, studyAnswerRows, studyCovariates, studyIdColumn, type ExportedFile, type ExportOptions } from './export-run.js';

@@ -23,14 +23,38 @@ export interface RunRow {
   readonly error: string | null;
 }
 
-export interface NewRunDefaults {
-  readonly themes: number;
-  readonly sweeps: number;
-  readonly burnIn: number;
-  readonly seed: number;
-  readonly threads: number;
-  readonly maxThreads: number;
-  readonly holdout: number;
+/** One field of the new-run form, as the settings schema describes it (src/services/run-settings-schema.ts). */
+export interface SettingField {
+  readonly name: string;
+  readonly label: string;
+  readonly hint: string;
+  readonly min: number;
+  readonly max: number;
+  readonly step?: number;
+  readonly value?: number;
+  readonly placeholder?: string;
+  readonly required: boolean;
+}
+
+function SettingInput(props: { f: SettingField | undefined; hint?: string }) {
+  const f = props.f;
+  if (!f) return null;
+  return (
+    <label>
+      {f.label}{' '}
+      <input
+        name={f.name}
+        type="number"
+        min={String(f.min)}
+        max={String(f.max)}
+        {...(f.step !== undefined ? { step: String(f.step) } : {})}
+        {...(f.value !== undefined ? { value: String(f.value) } : {})}
+        {...(f.placeholder !== undefined ? { placeholder: f.placeholder } : {})}
+        required={f.required}
+      />
+      <span class="hint">{props.hint ?? f.hint}</span>
+    </label>
+  );
 }
 
 const STATUS_TEXT: Record<string, string> = {
@@ -54,7 +78,10 @@ export function RunsPage(props: {
   frame: PageFrame;
   studyId: number;
   runs: readonly RunRow[];
-  defaults: NewRunDefaults;
+  /** The form's numeric fields by setting name (themes, sweeps, burnIn, seed, threads, holdout). */
+  fields: Readonly<Record<string, SettingField>>;
+  /** This server's cores. */
+  maxThreads: number;
   covariates: readonly { name: string; levels: number; numeric: boolean }[];
   answers: number;
   canEdit: boolean;
@@ -63,7 +90,7 @@ export function RunsPage(props: {
   error?: string;
 }) {
   const base = `/studies/${props.studyId}/runs`;
-  const d = props.defaults;
+  const f = props.fields;
   const finished = props.runs.filter((r) => r.status === 'finished');
   return (
     <Layout {...props.frame}>
@@ -145,10 +172,7 @@ export function RunsPage(props: {
           <h2>New run</h2>
           <form method="post" action={base} class="stack" id="new-run-form">
             <CsrfField csrf={props.frame.csrf} />
-            <label>
-              Number of themes <input name="themes" type="number" min="2" max="200" value={String(d.themes)} required />
-              <span class="hint">How many themes to look for. 10–30 suits most surveys of a few thousand answers; try two or three values and compare.</span>
-            </label>
+            <SettingInput f={f.themes} />
             <fieldset>
               <legend>Compare groups by</legend>
               {props.covariates.length === 0 && <p class="hint">No group columns were imported.</p>}
@@ -161,15 +185,19 @@ export function RunsPage(props: {
             </fieldset>
             <details>
               <summary>More settings</summary>
-              <label>Sweeps <input name="sweeps" type="number" min="10" max="100000" value={String(d.sweeps)} /><span class="hint">Passes over all words. More is slower and more settled.</span></label>
-              <label>Burn-in sweeps <input name="burnIn" type="number" min="0" max="100000" value={String(d.burnIn)} /><span class="hint">Early sweeps not used for the results.</span></label>
-              <label>Seed <input name="seed" type="number" min="0" max="4294967295" value={String(d.seed)} /><span class="hint">Same seed and settings give the same result. Change it to check stability.</span></label>
-              <label>Threads <input name="threads" type="number" min="1" max={String(d.maxThreads)} value={String(d.threads)} /><span class="hint">Processor cores used by this run (this server has {d.maxThreads}).</span></label>
-              <label>Held-out share <input name="holdout" type="number" min="0" max="0.5" step="0.05" value={String(d.holdout)} /><span class="hint">Answers kept aside to check the model on text it has not seen.</span></label>
+              <SettingInput f={f.sweeps} />
+              <SettingInput f={f.burnIn} />
+              <SettingInput f={f.seed} />
+              <SettingInput f={f.threads} hint={`${f.threads?.hint ?? ''} This server has ${props.maxThreads}.`} />
+              <SettingInput f={f.holdout} />
               <label>Name <input name="name" maxlength={100} placeholder="chosen for you" /></label>
             </details>
-            <p class="hint">{count(props.answers)} answers will be used.</p>
-            <button type="submit">Start run</button>
+            {props.answers === 0 ? (
+              <Notice kind="error">This study has no answers to fit yet. Import a file with answers on the Data page first, or check the Languages and Vocabulary pages for answers left out.</Notice>
+            ) : (
+              <p class="hint">{count(props.answers)} answers will be used.</p>
+            )}
+            <button type="submit" disabled={props.answers === 0}>Start run</button>
           </form>
         </section>
       )}
@@ -204,6 +232,8 @@ export interface ProgressView {
   readonly status: string;
   readonly error: string | null;
   readonly phase?: string;
+  /** Detail of the phase (e.g. which summary is being computed). */
+  readonly step?: string;
   readonly sweep?: number;
   readonly sweeps: number;
   readonly tokensPerSecond?: number;
@@ -220,7 +250,7 @@ export function RunProgressPanel(props: { p: ProgressView; csrf: string }) {
   return (
     <div id="run-progress" data-status={p.status}>
       <dl class="facts">
-        <div><dt>Status</dt><dd id="run-status">{statusText(p.status)}{p.phase && p.status === 'running' ? ` · ${p.phase}` : ''}</dd></div>
+        <div><dt>Status</dt><dd id="run-status">{statusText(p.status)}{p.phase && p.status === 'running' ? ` · ${p.phase}${p.step ? `: ${p.step}` : ''}` : ''}</dd></div>
         <div><dt>Sweep</dt><dd id="run-sweep">{count(sweep)} of {count(p.sweeps)}</dd></div>
         <div><dt>Words per second</dt><dd>{p.tokensPerSecond === undefined ? '—' : count(Math.round(p.tokensPerSecond))}</dd></div>
         <div><dt>Log-likelihood per word</dt><dd>{fmt(p.logLikelihoodPerToken)}</dd></div>

@@ -3,7 +3,7 @@ import { availableParallelism } from 'node:os';
 import { Hono, type Context } from 'hono';
 import { streamSSE } from 'hono/streaming';
 import { RunPage, RunProgressPanel, RunsPage, type ProgressView } from '../../../views/pages/runs.js';
-import { createFitRun } from '../../services/fit-run.js';
+import { createFitRun, NUMBER_SETTINGS, readFitRequest, type SettingLimits } from '../../services/index.js';
 import { covariateLevels, getRun, languageSummary, listRuns, studyRole, type Run, type Study } from '../../store/index.js';
 import { InputError } from '../../text/types.js';
 import type { JobEvent } from '../../jobs/index.js';
@@ -11,7 +11,36 @@ import { frame, runFor, studyFor } from '../access.js';
 import { renderPage } from '../render.js';
 import { runSummaries } from '../results/summaries.js';
 import type { AppEnv } from '../types.js';
-import { intField, numberField, text, texts } from './forms.js';
+import { text, texts } from './forms.js';
+import type { SettingField } from '../../../views/pages/runs.js';
+
+/** The workbench offers no more threads than this server's cores. */
+function placeLimits(): SettingLimits {
+  return { threads: Math.max(1, availableParallelism()) };
+}
+
+/** The Runs form's fields, from the one settings schema (src/services/run-settings-schema.ts). */
+function settingFields(limits: SettingLimits): Record<string, SettingField> {
+  const fields: Record<string, SettingField> = {};
+  for (const spec of NUMBER_SETTINGS) {
+    if (!spec.onForm) continue;
+    const fixed = typeof spec.fallback === 'number' ? spec.fallback : undefined;
+    const value = spec.suggested ?? fixed;
+    fields[spec.name] = {
+      name: spec.name,
+      label: spec.label,
+      hint: spec.hint,
+      min: spec.min,
+      max: Math.min(spec.max, limits[spec.name] ?? spec.max),
+      ...(spec.step !== undefined ? { step: spec.step } : {}),
+      // A default that follows from another setting (burn-in from sweeps) is left to the server.
+      ...(value !== undefined ? { value } : {}),
+      ...(typeof spec.fallback === 'function' ? { placeholder: spec.fallbackText } : {}),
+      required: spec.fallback === null,
+    };
+  }
+  return fields;
+}
 
 function canEdit(c: Context<AppEnv>, study: Study): boolean {
   const user = c.get('user');
@@ -34,6 +63,7 @@ function progressView(c: Context<AppEnv>, run: Run): ProgressView {
     status: run.status,
     error: run.error,
     phase: typeof p.phase === 'string' ? p.phase : undefined,
+    step: typeof p.step === 'string' ? p.step : undefined,
     sweep: typeof p.sweep === 'number' ? p.sweep : undefined,
     sweeps: typeof p.sweeps === 'number' ? p.sweeps : run.settings.sweeps,
     tokensPerSecond: typeof p.tokensPerSecond === 'number' ? p.tokensPerSecond : undefined,
@@ -58,7 +88,7 @@ export function runRoutes(): Hono<AppEnv> {
     const summaries = runSummaries(store, runs);
     const levels = covariateLevels(store, study.id, 1);
     const included = languageSummary(store, study.id).reduce((s, r) => s + r.included, 0);
-    const maxThreads = Math.max(1, availableParallelism());
+    const limits = placeLimits();
     return renderPage(
       c,
       <RunsPage
@@ -78,7 +108,8 @@ export function runRoutes(): Hono<AppEnv> {
           error: r.error,
           ...summaries.get(r.id),
         }))}
-        defaults={{ themes: 10, sweeps: 500, burnIn: 100, seed: 1, threads: 1, maxThreads, holdout: 0.1 }}
+        fields={settingFields(limits)}
+        maxThreads={limits.threads!}
         covariates={Object.entries(levels).map(([name, v]) => ({ name, levels: v.distinct, numeric: v.numeric }))}
         answers={included}
         canEdit={canEdit(c, study)}
@@ -95,33 +126,29 @@ export function runRoutes(): Hono<AppEnv> {
     const study = studyFor(c, 'write');
     const { store, queue } = c.get('deps');
     const body = await c.req.parseBody({ all: true });
-    const themes = intField(body.themes, 'Number of themes', 2, 200);
-    const sweeps = intField(body.sweeps, 'Sweeps', 1, 100000, 500);
-    const burnIn = intField(body.burnIn, 'Burn-in sweeps', 0, 100000, typeof sweeps === 'number' ? Math.min(200, Math.floor(sweeps / 5)) : 0);
-    const seed = intField(body.seed, 'Seed', 0, 4294967295, 1);
-    const threads = intField(body.threads, 'Threads', 1, Math.max(1, availableParallelism()), 1);
-    const holdout = numberField(body.holdout, 'Held-out share', 0, 0.5, 0);
-    const problems = [themes, sweeps, burnIn, seed, threads, holdout].filter((v): v is string => typeof v === 'string');
-    if (problems.length) return runsPage(c, study, problems.join(' '));
-    if ((burnIn as number) >= (sweeps as number)) return runsPage(c, study, 'Burn-in sweeps must be fewer than sweeps.');
     try {
+      // Read, bounded and defaulted by the one settings schema; messages name the fields' labels.
+      const request = readFitRequest(
+        {
+          themes: text(body.themes),
+          sweeps: text(body.sweeps),
+          burnIn: text(body.burnIn),
+          seed: text(body.seed),
+          threads: text(body.threads),
+          holdout: text(body.holdout),
+          covariates: texts(body.covariates),
+          name: text(body.name),
+        },
+        'label',
+        placeLimits(),
+      );
       // At most a few fits queued or running per account (src/jobs/queue.ts; ASVS 4.0.3 V11.1.3).
       queue.checkFitLimit(c.get('user').id);
-      const run = createFitRun(store, study.id, {
-        themes: themes as number,
-        sweeps: sweeps as number,
-        burnIn: burnIn as number,
-        seed: seed as number,
-        threads: threads as number,
-        holdout: holdout as number,
-        covariates: texts(body.covariates),
-        name: text(body.name).trim().slice(0, 100) || undefined,
-      });
+      const run = createFitRun(store, study.id, request, { wording: 'label', limits: placeLimits() });
       queue.enqueue(run.id, c.get('user').id);
       return c.redirect(`/studies/${study.id}/runs/${run.id}`, 303);
     } catch (error) {
       if (error instanceof InputError) return runsPage(c, study, error.message);
-      if (error instanceof Error && /UNIQUE/.test(error.message)) return runsPage(c, study, 'A run with that name exists already. Choose another name.');
       throw error;
     }
   });

@@ -1,0 +1,160 @@
+// Running the fit of a stored run, phase by phase, each one reported (issue 15: "never silent"):
+//   preparing corpus → starting → sampling → summarising → storing results → finished.
+// The corpus is built from the study's answers minus a seeded held-out share of link groups; the
+// sweeps run in the model (fit-engine.ts); the summaries (contrasts, checks) are computed from the
+// fitted arrays before anything is written; and results, summaries, final progress and status
+// 'finished' are stored in one transaction, so a kill at any point leaves either a resumable run
+// with its checkpoint or a finished run with everything. Takes a data folder (or an open store)
+// so the same function runs in the command line's process and in a worker thread (src/jobs).
+import { heldOutGroups } from '../eval/index.js';
+import { buildCorpus, buildGroupFeatures, type GroupFeatures } from '../model/index.js';
+import {
+  covariateLevels,
+  getRun,
+  isBusyError,
+  latestCheckpoint,
+  listDocumentTokens,
+  loadVocabulary,
+  openStore,
+  saveCheckpoint,
+  type Run,
+  type RunProgress,
+  type Store,
+} from '../store/index.js';
+import { InputError } from '../text/types.js';
+import { fitCorpus } from './fit-engine.js';
+import { fittedRunModel, storeFittedRun, type FitDiagnostics } from './fit-results.js';
+import { modelSettingsOf } from './run-settings-schema.js';
+import { computeRunSummaries } from './run-summaries.js';
+import { estimateAfterSampling, type AfterSamplingEstimate } from './fit-time.js';
+
+export type { FitDiagnostics } from './fit-results.js';
+
+/** The phases of a fit, in order, as reported in RunProgress.phase. */
+export const FIT_PHASES = ['preparing corpus', 'starting', 'sampling', 'summarising', 'storing results', 'finished'] as const;
+export type FitPhase = (typeof FIT_PHASES)[number];
+
+export interface FitJobOptions {
+  /** Open store, or a data folder to open (and close) here — what a worker thread passes. */
+  store?: Store;
+  dataDir?: string;
+  runId: number;
+  onStart?: (resumedFromSweep: number | null) => void;
+  onProgress?: (progress: RunProgress) => void;
+  shouldStop?: () => boolean;
+}
+
+export interface FitJobOutcome {
+  stopped: boolean;
+  diagnostics: FitDiagnostics | null;
+}
+
+/**
+ * Run the fit of a stored run to the end (or until shouldStop) and store its results and
+ * summaries; the run becomes 'finished' in the same transaction.
+ */
+export async function runFitJob(options: FitJobOptions): Promise<FitJobOutcome> {
+  const store = options.store ?? openStore(options.dataDir ?? './data');
+  const report = (p: RunProgress & { phase: FitPhase }) => options.onProgress?.(p);
+  try {
+    const run = getRun(store, options.runId);
+    if (!run) throw new Error(`No run with id ${options.runId}.`);
+    const m = modelSettingsOf(run.settings);
+    const checkpoint = latestCheckpoint(store, run.id);
+    const fromSweep = checkpoint?.sweep ?? 0;
+    options.onStart?.(checkpoint ? checkpoint.sweep : null);
+    report({ phase: 'preparing corpus', sweep: fromSweep, sweeps: m.sweeps });
+    const prepared = prepareCorpus(store, run);
+    const after = estimateAfterSampling(store, run, prepared);
+    report({ phase: 'starting', sweep: fromSweep, sweeps: m.sweeps });
+    const out = await fitCorpus(
+      prepared.corpus,
+      prepared.features,
+      { K: m.K, sweeps: m.sweeps, burnIn: m.burnIn, seed: m.seed, threads: m.threads, sampleEvery: m.sampleEvery, maxSamples: m.keepThetaSamples, checkpointEvery: m.checkpointEvery, sampler: m.sampler },
+      {
+        // Time left covers what follows the sweeps too, estimated from one sweep's time (fit-time.ts).
+        onSweep: (r) => report({ phase: 'sampling', ...r, secondsLeft: r.secondsLeft + after.totalSeconds }),
+        shouldStop: options.shouldStop,
+        onCheckpoint: (sweep, bytes) => {
+          try {
+            saveCheckpoint(store, run.id, sweep, bytes);
+          } catch (error) {
+            // A busy database (a long import) must not stop the fit: the next checkpoint will do.
+            if (!isBusyError(error)) throw error;
+          }
+        },
+        ...(checkpoint ? { resumeFrom: checkpoint.bytes } : {}),
+      },
+    );
+    if (out.stopped) return { stopped: true, diagnostics: null };
+    const model = fittedRunModel(run, prepared, out);
+    const summaries = summarise(store, model, after, out.sweepsDone, options, report);
+    if (summaries.stopped) return { stopped: true, diagnostics: null };
+    report({ phase: 'storing results', sweep: out.sweepsDone, sweeps: m.sweeps, secondsLeft: after.storingSeconds });
+    storeFittedRun(store, run, prepared, out, model.diagnostics, summaries.entries);
+    report({ phase: 'finished', sweep: out.sweepsDone, sweeps: m.sweeps, logLikelihoodPerToken: model.diagnostics.logLikelihoodPerToken, secondsLeft: 0 });
+    return { stopped: false, diagnostics: model.diagnostics };
+  } finally {
+    if (!options.store) store.close();
+  }
+}
+
+/** The summaries, with time left from the steps measured so far (after the first) or the estimate. */
+function summarise(
+  store: Store,
+  model: ReturnType<typeof fittedRunModel>,
+  after: AfterSamplingEstimate,
+  sweep: number,
+  options: FitJobOptions,
+  report: (p: RunProgress & { phase: FitPhase }) => void,
+) {
+  const started = performance.now();
+  return computeRunSummaries(store, model, {
+    shouldStop: options.shouldStop,
+    onStep: ({ label, index, count }) => {
+      const spent = (performance.now() - started) / 1000;
+      const left = index === 0 ? after.totalSeconds : (spent / index) * (count - index) + after.storingSeconds;
+      report({ phase: 'summarising', step: `${label} (${index + 1} of ${count})`, sweep, sweeps: model.run.settings.sweeps, secondsLeft: left });
+    },
+  });
+}
+
+export interface PreparedCorpus {
+  corpus: ReturnType<typeof buildCorpus>['corpus'];
+  languages: string[];
+  /** Corpus document index → document id. */
+  documentIds: Int32Array;
+  heldOutIds: Int32Array;
+  vocabularies: { stems: string[]; surfaces: string[] }[];
+  /** Covariate features per link group (first member's covariates), or null without covariates. */
+  features: GroupFeatures | null;
+}
+
+/** The study's included documents as a corpus, minus a seeded held-out share of link groups. */
+export function prepareCorpus(store: Store, run: Run): PreparedCorpus {
+  const docs = listDocumentTokens(store, run.studyId).filter((d) => d.tokens.length > 0);
+  if (docs.length === 0) throw new InputError('The study has no answers with words to fit. Import a file first, or check the Languages and Vocabulary pages for exclusions.');
+  const languages = [...new Set(docs.map((d) => d.language))].sort();
+  const vocabularies = languages.map((l) => loadVocabulary(store, run.studyId, l));
+  const held = heldOutGroups(docs.map((d) => d.linkKey ?? `#${d.id}`), run.settings.holdout, run.settings.seed);
+  const train = docs.filter((_, i) => held[i] === 0);
+  if (train.length === 0) throw new InputError('Every answer was held out; lower the held-out share.');
+  const langIndex = new Map(languages.map((l, i) => [l, i]));
+  const built = buildCorpus({
+    languages,
+    vocabSizes: vocabularies.map((v) => v.stems.length),
+    documents: train.map((d) => ({ language: langIndex.get(d.language)!, tokens: d.tokens, linkKey: d.linkKey })),
+  });
+  const documentIds = Int32Array.from(built.docOrder, (i) => train[i].id);
+  const heldOutIds = Int32Array.from(docs.filter((_, i) => held[i] === 1).map((d) => d.id));
+  const specs = covariateSpecs(store, run);
+  const features = specs.length ? buildGroupFeatures(Array.from(built.groupFirstInput, (i) => train[i].covariates), specs) : null;
+  return { corpus: built.corpus, languages, documentIds, heldOutIds, vocabularies: vocabularies.map((v) => ({ stems: v.stems, surfaces: v.surfaces })), features };
+}
+
+/** Covariates of the run with their types (numeric when every observed value is a number). */
+function covariateSpecs(store: Store, run: Run): { column: string; type: 'categorical' | 'numeric' }[] {
+  if (run.settings.covariates.length === 0) return [];
+  const levels = covariateLevels(store, run.studyId, 1);
+  return run.settings.covariates.map((column) => ({ column, type: levels[column]?.numeric ? 'numeric' : 'categorical' }));
+}

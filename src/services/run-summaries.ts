@@ -1,0 +1,54 @@
+// The summaries a fit stores beside its results, so the results pages and every way of fitting
+// (the command line in process, the workbench in a worker thread) show the same figures: group
+// contrasts for every covariate (and language, question) and the checks. Computed once after the
+// sweeps, off the request path, instead of while someone waits for a page.
+import type { ResultValue, StoredResult, Store } from '../store/index.js';
+import { runChecks } from './checks.js';
+import { contrastCovariates, runContrasts } from './contrasts.js';
+import type { RunModel } from './run-model.js';
+
+/** Bootstrap × posterior draws for stored group contrasts (common practice for 95% percentile intervals). */
+export const CONTRAST_DRAWS = 1000;
+
+export function contrastKey(covariate: string): string {
+  return `contrast:${covariate}`;
+}
+
+export interface SummaryHooks {
+  /** One call per summary about to be computed: its description, and its place among all. */
+  onStep?: (step: { label: string; index: number; count: number }) => void;
+  /** Checked before each summary; true stops and returns what is done so far. */
+  shouldStop?: () => boolean;
+}
+
+/** Names of the summaries of a run of this study, in the order they are computed. */
+export function summarySteps(store: Store, studyId: number): string[] {
+  return [...contrastCovariates(store, studyId).map(contrastKey), 'checks'];
+}
+
+/**
+ * Contrasts and checks of a fitted run (given as a model, stored or not yet), as result entries.
+ * A covariate the contrasts cannot use (e.g. one level only) is left out and computed on demand.
+ */
+export function computeRunSummaries(store: Store, model: RunModel, hooks: SummaryHooks = {}): { entries: Record<string, ResultValue | StoredResult>; stopped: boolean } {
+  const entries: Record<string, ResultValue | StoredResult> = {};
+  const names = contrastCovariates(store, model.run.studyId);
+  const count = names.length + 1;
+  for (let i = 0; i < names.length; i++) {
+    if (hooks.shouldStop?.()) return { entries, stopped: true };
+    hooks.onStep?.({ label: `comparing groups by ${names[i]}`, index: i, count });
+    try {
+      entries[contrastKey(names[i])] = { json: runContrasts(store, model, { by: names[i], draws: CONTRAST_DRAWS }) };
+    } catch {
+      // computed on demand instead (see above)
+    }
+  }
+  if (hooks.shouldStop?.()) return { entries, stopped: true };
+  hooks.onStep?.({ label: 'checking the model', index: names.length, count });
+  try {
+    entries.checks = { json: runChecks(store, model) };
+  } catch {
+    // The Checks page computes them when opened.
+  }
+  return { entries, stopped: false };
+}
