@@ -85,15 +85,16 @@ describe('themata command line, end to end', () => {
     expect(again.stderr).toMatch(/is finished/);
   });
 
-  it('exports the five files with their headers, a BOM and the formula-injection guard', async () => {
+  it('exports the six files with their headers, a BOM and the formula-injection guard', async () => {
     const dir = join(t.dir, 'export');
-    const r = await cli(['--data', data, 'export', '--study', 'Test survey', '--run', 'small', '--out', dir, '--draws', '200']);
+    // Without the answer text (its commas would need a CSV reader below); one text column: no question column.
+    const r = await cli(['--data', data, 'export', '--study', 'Test survey', '--run', 'small', '--out', dir, '--draws', '200', '--no-answer-text']);
     expect(r.stderr).toBe('');
     expect(r.code).toBe(0);
-    expect(r.stdout.trim().split('\n').map((p) => p.split(/[\\/]/).pop())).toEqual(['answers-by-theme.csv', 'theme-words.csv', 'theme-shares-by-group.csv', 'codebook.json', 'small.themata-run']);
+    expect(r.stdout.trim().split('\n').map((p) => p.split(/[\\/]/).pop())).toEqual(['answers-by-theme.csv', 'theme-words.csv', 'theme-shares-by-group.csv', 'codebook.json', 'small.themata-run', 'theme-tables.xlsx']);
     const answers = csvText(join(dir, 'answers-by-theme.csv'));
     expect(answers.bom).toBe(true);
-    expect(answers.lines[0]).toBe('id,question,region,age,language,link key,weight,Theme 1,Theme 2,Theme 3,dominant theme');
+    expect(answers.lines[0]).toBe('id,region,age,language,link key,weight,Theme 1,Theme 2,Theme 3,dominant theme,left out because');
     expect(answers.lines).toHaveLength(91);
     // No cell may start with = + - @ tab or CR: the fixture has ids "-3" and regions "=Coast", "@Hills".
     const cells = answers.lines.slice(1).flatMap((l) => l.split(','));
@@ -101,9 +102,9 @@ describe('themata command line, end to end', () => {
     expect(cells).toContain("'=Coast");
     expect(cells).toContain("'@Hills");
     // Every included answer has shares summing to 1, held-out ones too (fold-in).
-    const withShares = answers.lines.slice(1).map((l) => l.split(',')).filter((c) => c[7] !== '');
+    const withShares = answers.lines.slice(1).map((l) => l.split(',')).filter((c) => c[6] !== '');
     expect(withShares.length).toBe(90);
-    for (const c of withShares) expect(Number(c[7]) + Number(c[8]) + Number(c[9])).toBeCloseTo(1, 4);
+    for (const c of withShares) expect(Number(c[6]) + Number(c[7]) + Number(c[8])).toBeCloseTo(1, 4);
     expect(csvText(join(dir, 'theme-words.csv')).lines[0]).toBe('theme,language,rank,word,stem,probability,exclusivity');
     const shares = csvText(join(dir, 'theme-shares-by-group.csv'));
     expect(shares.lines[0]).toBe('covariate,level,theme,share,low,high,n,effective n');
@@ -117,6 +118,12 @@ describe('themata command line, end to end', () => {
     const codebook = JSON.parse(readFileSync(join(dir, 'codebook.json'), 'utf8'));
     expect(codebook.themes).toHaveLength(3);
     expect(Object.keys(codebook.themes[0].words)).toEqual(['en', 'es']);
+    // By default the answer text follows the id; --no-workbook leaves the workbook out.
+    const full = join(t.dir, 'export-full');
+    const r2 = await cli(['--data', data, 'export', '--study', 'Test survey', '--run', 'small', '--out', full, '--draws', '20', '--no-workbook']);
+    expect(r2.code).toBe(0);
+    expect(r2.stdout).not.toContain('theme-tables.xlsx');
+    expect(csvText(join(full, 'answers-by-theme.csv')).lines[0]).toMatch(/^id,answer,region,age,/);
   });
 
   it('applies the run to a new file, from the database and from the saved bundle alone', async () => {
@@ -125,7 +132,7 @@ describe('themata command line, end to end', () => {
     expect(r1.code).toBe(0);
     const coded = csvText(out1);
     expect(coded.bom).toBe(true);
-    expect(coded.lines[0]).toBe('id,question,region,age,language,link key,weight,Theme 1,Theme 2,Theme 3,dominant theme');
+    expect(coded.lines[0]).toBe('id,answer,region,age,language,link key,weight,Theme 1,Theme 2,Theme 3,dominant theme,left out because');
     expect(coded.lines).toHaveLength(21);
     expect(r1.stderr).toMatch(/Coded 20 of 20 answers/);
     const out2 = join(t.dir, 'coded-from-bundle.csv');
@@ -137,7 +144,7 @@ describe('themata command line, end to end', () => {
     const r2 = await cli([...args2, '--trust-bundle']);
     expect(r2.code).toBe(0);
     expect(r2.stderr).toMatch(/a bundle of another Themata installation, because --trust-bundle was given/);
-    expect(csvText(out2).lines[0]).toBe('id,question,region,language,link key,weight,Theme 1,Theme 2,Theme 3,dominant theme');
+    expect(csvText(out2).lines[0]).toBe('id,answer,region,language,link key,weight,Theme 1,Theme 2,Theme 3,dominant theme,left out because');
   });
 
   it('V5.5.1: applies a bundle this data folder signed, and refuses the same bundle once edited, even with --trust-bundle', async () => {
