@@ -144,6 +144,8 @@ export interface DocumentFilter {
   disagreements?: boolean;
   /** Only answers written in two languages. */
   mixed?: boolean;
+  /** Only documents where the text said this about their declared language. */
+  declaredCheck?: DeclaredCheck;
   /** Only documents whose decided language differs from the one their text is written in. */
   writtenDiffers?: boolean;
   /** Case-insensitive substring of the text or row id. */
@@ -172,6 +174,7 @@ function whereClause(studyId: number, f: DocumentFilter): { sql: string; params:
   if (f.excluded === false) parts.push('excluded IS NULL');
   if (f.disagreements) parts.push(DISAGREES);
   if (f.mixed) parts.push('mixed_language IS NOT NULL');
+  if (f.declaredCheck !== undefined) (parts.push('declared_check = ?'), params.push(f.declaredCheck));
   if (f.writtenDiffers) parts.push(WRITTEN_DIFFERS);
   if (f.search) {
     parts.push('(instr(unicode_lower(text), unicode_lower(?)) > 0 OR row_id = ?)');

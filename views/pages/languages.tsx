@@ -23,6 +23,22 @@ export interface AnswerRow {
   readonly source: string;
   readonly confidence: number;
   readonly excluded: string | null;
+  /** The language the text is written in, by the text alone (null: too little evidence). */
+  readonly written?: string | null;
+  /** What the text said about the declared language: confirmed, kept, overruled. */
+  readonly check?: string | null;
+  /** The second language of an answer written in two, with its share of the words. */
+  readonly mixed?: { readonly language: string; readonly share: number } | null;
+}
+
+/** Answers to review beside the counts. */
+export interface ReviewCounts {
+  /** Decided language differs from the language written: what "accept written" would change. */
+  readonly writtenDiffers: number;
+  /** Answers written in two languages. */
+  readonly mixed: number;
+  /** Answers whose text overruled their declared language. */
+  readonly overruled: number;
 }
 
 export interface LanguagesPageProps {
@@ -39,6 +55,7 @@ export interface LanguagesPageProps {
   readonly choices: readonly string[];
   readonly canEdit: boolean;
   readonly message?: string;
+  readonly review?: ReviewCounts;
   readonly glossaryTerms?: GlossaryTermsProps;
 }
 
@@ -50,12 +67,18 @@ const SOURCE_HELP: Record<string, string> = {
   overridden: 'set by hand',
   undetermined: 'too little evidence to decide',
 };
+const CHECK_HELP: Record<string, string> = {
+  confirmed: 'the text is written in the declared language',
+  kept: 'too little text to say otherwise: the declared language stands',
+  overruled: 'the text is clearly written in another language, which was taken',
+};
 
 export function LanguagesPage(props: LanguagesPageProps) {
   const base = `/studies/${props.studyId}/languages`;
   const views: [string, string][] = [
     ['undetermined', 'Undetermined'],
     ['disagreements', 'Declared ≠ written'],
+    ['mixed', 'Two languages'],
     ['all', 'All answers'],
   ];
   return (
@@ -86,12 +109,30 @@ export function LanguagesPage(props: LanguagesPageProps) {
           ))}
         </tbody>
       </table>
-      <p class="hint">Sources: {SOURCES.map((s) => `${s} = ${SOURCE_HELP[s]}`).join('; ')}.</p>
+      <p class="hint">Sources: {SOURCES.map((s) => `${s} = ${SOURCE_HELP[s]}`).join('; ')}. Declared language: {Object.entries(CHECK_HELP).map(([k, v]) => `${k} = ${v}`).join('; ')}.</p>
       <Histogram
         caption="How sure the language decision is, over all answers (1 = certain). Answers at the low end are worth a look."
         xLabel="Confidence"
         bins={props.bins.map((n, i) => ({ x0: i / 10, x1: (i + 1) / 10, count: n }))}
       />
+      {props.review && (
+        <section id="language-review">
+          <p>
+            The language column of a file is taken as a strong prior, not as the truth: an answer whose text is clearly in another
+            language gets the language it is written in ({count(props.review.overruled)} answer{props.review.overruled === 1 ? '' : 's'} so far), and the declared
+            language stays beside it. {count(props.review.mixed)} answer{props.review.mixed === 1 ? ' is' : 's are'} written in two languages and go by the language of most of their words.
+          </p>
+          {props.review.writtenDiffers > 0 && props.canEdit && (
+            <form method="post" action={`${base}/accept-written`} class="row">
+              <CsrfField csrf={props.frame.csrf} />
+              <input type="hidden" name="all" value="1" />
+              <input type="hidden" name="back" value={`${base}?show=${props.show}&language=${props.filterLanguage}&offset=${props.offset}`} />
+              <span>{count(props.review.writtenDiffers)} answer{props.review.writtenDiffers === 1 ? ' keeps a language' : 's keep a language'} other than the one {props.review.writtenDiffers === 1 ? 'it is' : 'they are'} written in.</span>
+              <button type="submit">Accept the written language for all {count(props.review.writtenDiffers)}</button>
+            </form>
+          )}
+        </section>
+      )}
       <h2>Review answers</h2>
       <nav class="subtabs" aria-label="Which answers">
         {views.map(([key, label]) => (
@@ -119,6 +160,7 @@ export function LanguagesPage(props: LanguagesPageProps) {
               <th scope="col">Row</th>
               <th scope="col">Answer</th>
               <th scope="col">Declared</th>
+              <th scope="col" title="judged from the text alone">Written</th>
               <th scope="col">Decided</th>
               <th scope="col" class="num">Confidence</th>
               {props.canEdit && <th scope="col">Change to</th>}
@@ -131,7 +173,14 @@ export function LanguagesPage(props: LanguagesPageProps) {
                 <td>{a.rowId}</td>
                 <td class="answer" dir="auto">{a.text}{a.excluded && <span class="tag">{a.excluded}</span>}</td>
                 <td>{a.declared ?? '—'}</td>
-                <td>{a.language ?? 'undetermined'} <span class="hint">({a.source})</span></td>
+                <td>
+                  {a.written ?? '—'}
+                  {a.mixed && <span class="tag" title={`${percent(a.mixed.share, 0)} of the words are in ${a.mixed.language}`}>mixed with {a.mixed.language} ({percent(a.mixed.share, 0)})</span>}
+                </td>
+                <td>
+                  {a.language ?? 'undetermined'} <span class="hint">({a.source}{a.check ? `; declared ${a.check}` : ''})</span>
+                  {a.check && <span class="sr">: {CHECK_HELP[a.check]}</span>}
+                </td>
                 <td class="num">{percent(a.confidence, 0)}</td>
                 {props.canEdit && (
                   <td class="row">
@@ -140,6 +189,11 @@ export function LanguagesPage(props: LanguagesPageProps) {
                       <option value="-">undetermined</option>
                     </select>
                     <button type="submit" name="one" value={String(a.id)} class="small">Set</button>
+                    {a.written && a.written !== a.language && (
+                      <button type="submit" name="one" value={String(a.id)} formaction={`${base}/accept-written`} class="small">
+                        Accept written ({a.written})
+                      </button>
+                    )}
                   </td>
                 )}
               </tr>

@@ -4,13 +4,19 @@ import { Hono, type Context } from 'hono';
 import { LanguagesPage } from '../../../views/pages/languages.js';
 import { rebuildVocabulary } from '../../services/vocabulary.js';
 import { glossaryTermsByLanguage } from '../../services/glossary.js';
-import { languageSummary, listDocuments, overrideLanguages, studyRole, type DocumentFilter } from '../../store/index.js';
+import { adoptWrittenLanguages, languageSummary, listDocuments, overrideLanguages, studyRole, type DocumentFilter } from '../../store/index.js';
 import { frame, studyFor } from '../access.js';
 import { renderPage } from '../render.js';
 import type { AppEnv } from '../types.js';
 import { queryInt, text, texts } from './forms.js';
 
 const PAGE = 50;
+
+/** Back to the Languages page the form came from (never elsewhere), saying how many changed. */
+function back(c: Context<AppEnv>, studyId: number, from: string, changed: number) {
+  const target = from.startsWith(`/studies/${studyId}/languages`) ? from : `/studies/${studyId}/languages`;
+  return c.redirect(`${target}${target.includes('?') ? '&' : '?'}changed=${changed}`, 303);
+}
 
 export function languageRoutes(): Hono<AppEnv> {
   const app = new Hono<AppEnv>();
@@ -28,6 +34,7 @@ export function languageRoutes(): Hono<AppEnv> {
     const filter: DocumentFilter = {};
     if (show === 'undetermined') filter.language = null;
     else if (show === 'disagreements') filter.disagreements = true;
+    else if (show === 'mixed') filter.mixed = true;
     if (filterLanguage && show !== 'undetermined') filter.language = filterLanguage;
     const offset = queryInt(c.req.query('offset'), 0);
     const page = listDocuments(store, study.id, filter, { offset, limit: PAGE });
@@ -54,7 +61,15 @@ export function languageRoutes(): Hono<AppEnv> {
           source: d.languageSource,
           confidence: d.confidence,
           excluded: d.excluded,
+          written: d.writtenLanguage,
+          check: d.declaredCheck,
+          mixed: d.mixedLanguage === null ? null : { language: d.mixedLanguage, share: d.mixedShare ?? 0 },
         }))}
+        review={{
+          writtenDiffers: listDocuments(store, study.id, { writtenDiffers: true }, { limit: 0 }).total,
+          mixed: listDocuments(store, study.id, { mixed: true }, { limit: 0 }).total,
+          overruled: listDocuments(store, study.id, { declaredCheck: 'overruled' }, { limit: 0 }).total,
+        }}
         total={page.total}
         offset={offset}
         limit={PAGE}
@@ -88,9 +103,22 @@ export function languageRoutes(): Hono<AppEnv> {
       changed = overrideLanguages(store, study.id, ids, language === '-' ? null : language);
       rebuildVocabulary(store, study.id);
     }
-    const back = text(body.back);
-    const target = back.startsWith(`/studies/${study.id}/languages`) ? back : `/studies/${study.id}/languages`;
-    return c.redirect(`${target}${target.includes('?') ? '&' : '?'}changed=${changed}`, 303);
+    return back(c, study.id, text(body.back), changed);
+  });
+
+  // Accept the language an answer is written in (judged from its text) for one answer, or for
+  // every answer whose decided language differs from it; the declared language stays stored.
+  app.post('/studies/:sid/languages/accept-written', async (c: Context<AppEnv>) => {
+    const study = studyFor(c, 'write');
+    const { store } = c.get('deps');
+    const body = await c.req.parseBody({ all: true });
+    const one = Number(text(body.one));
+    const all = text(body.all) === '1';
+    let changed = 0;
+    if (Number.isInteger(one) && one > 0) changed = adoptWrittenLanguages(store, study.id, [one]);
+    else if (all) changed = adoptWrittenLanguages(store, study.id);
+    if (changed > 0) rebuildVocabulary(store, study.id);
+    return back(c, study.id, text(body.back), changed);
   });
   return app;
 }
