@@ -13,6 +13,7 @@ export function describeImport(s: ImportSummary): string[] {
   const lines = [
     `Imported ${s.fileName} into study "${s.studyName}"${s.studyCreated ? ' (new study)' : ''}: ${s.rows} rows, ${s.documents} answers.`,
     `Read as ${s.format.toUpperCase()}, encoding assumed ${s.encoding}${s.encodingConfidence !== undefined ? ` (confidence ${Math.round(s.encodingConfidence * 100)}%)` : ''}${s.delimiter ? `, delimiter ${JSON.stringify(s.delimiter)}` : ''}${s.sheet ? `, sheet "${s.sheet}"` : ''}.`,
+    ...(s.encodingNotes ?? []).map((n) => `Warning: ${n.message}`),
     `Answers per language: ${formatCounts(s.documentsPerLanguage)}.`,
     `Undetermined language: ${s.undetermined}.`,
     `Excluded: ${formatCounts(s.excluded)}.`,

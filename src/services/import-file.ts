@@ -2,9 +2,9 @@
 // language, keep the original bytes, then re-run the vocabulary over the whole study. Reading
 // and checking happen before anything is written; every write is one transaction, so bad input
 // (an InputError) or a failure half-way leaves the study exactly as it was.
-import { createStudy, exclusionSummary, getStudy, getStudyByName, inTransaction, insertDocuments, insertImport, setImportSummary, updateStudy, type Store } from '../store/index.js';
-import type { ColumnMapping, TableFormat } from '../text/types.js';
-import { DEFAULT_LANGUAGES, InputError, decideLanguages, mapInputColumns, normalizeLanguages, readInputTable } from './text-pipeline.js';
+import { createStudy, exclusionSummary, getStudy, getStudyByName, inTransaction, insertDocuments, insertImport, setImportSummary, updateStudy, type NewDocument, type Store } from '../store/index.js';
+import type { ColumnMapping, EncodingNote, MappedDocument, TableFormat } from '../text/types.js';
+import { DEFAULT_LANGUAGES, InputError, decideLanguages, mapInputColumns, normalizeLanguages, readInputTable, type LanguageOutcome } from './text-pipeline.js';
 import { applyVocabulary, planVocabulary, rebuildVocabulary, studyStamp } from './vocabulary.js';
 
 export interface ImportProgress {
@@ -39,11 +39,15 @@ export interface ImportSummary {
   readonly format: TableFormat;
   readonly encoding: string;
   readonly encodingConfidence?: number;
+  /** Mixed encodings, damaged UTF-8, mojibake: what the reader noticed and did, naming rows. */
+  readonly encodingNotes: readonly EncodingNote[];
   readonly delimiter?: string;
   readonly sheet?: string;
   readonly rows: number;
-  /** Documents this import added (one per non-empty text cell). */
+  /** Answers this import added (one per non-empty text cell). */
   readonly documents: number;
+  /** Empty or blank text cells, kept as documents left out with the reason 'empty'. */
+  readonly emptyAnswers: number;
   /** Documents of this import per decided language. */
   readonly documentsPerLanguage: Record<string, number>;
   /** How languages were decided in this import: declared, detected, adapted, undetermined. */
@@ -68,7 +72,10 @@ export async function importFile(store: Store, options: ImportOptions): Promise<
   progress({ phase: 'reading', done: options.bytes.byteLength, total: options.bytes.byteLength });
 
   let languages = normalizeLanguages([...(existing?.languages ?? []), ...(options.languages ?? [])]);
-  const docs = mapInputColumns(table, options.mapping, languages);
+  const mapped = mapInputColumns(table, options.mapping, languages, true);
+  // Empty cells are stored too (left out as 'empty', so the Data page lists them); only the
+  // answers with text go through language identification.
+  const docs = mapped.filter((d) => d.text !== '');
   if (docs.length === 0) {
     throw new InputError(`No answers to import: every cell of ${options.mapping.text.map((c) => `"${c}"`).join(', ')} is empty.`, options.fileName, undefined, options.mapping.text[0]);
   }
@@ -82,6 +89,7 @@ export async function importFile(store: Store, options: ImportOptions): Promise<
   const outcomes = decideLanguages(docs.map((d) => d.text), languages, docs.map((d) => d.declaredLanguage), options.trustDeclared === true);
   const decisions = outcomes.map((o) => o.decision);
   progress({ phase: 'languages', done: docs.length, total: docs.length });
+  const stored = storedDocuments(mapped, docs, outcomes);
   const found = [...new Set(decisions.map((d) => d.language).filter((x): x is string => !!x))];
   // Declared languages stay; without any, the study's languages are the ones actually found.
   const studyLanguages = explicit ? [...languages, ...found.filter((l) => !languages.includes(l))] : found.sort();
@@ -92,10 +100,10 @@ export async function importFile(store: Store, options: ImportOptions): Promise<
   const plan = planVocabulary(
     store,
     existing?.id ?? null,
-    docs.map((d, i) => ({ language: decisions[i].language, text: d.text })),
+    stored.map((d) => ({ language: d.language, text: d.text })),
     (done, total) => progress({ phase: 'vocabulary', done, total }),
   );
-  progress({ phase: 'saving', done: 0, total: docs.length });
+  progress({ phase: 'saving', done: 0, total: stored.length });
   return inTransaction(store, () => {
     const study = existing ?? createStudy(store, { name: (options.study as string).trim(), languages: studyLanguages });
     const stampBefore = existing ? studyStamp(store, existing.id) : null;
@@ -108,33 +116,11 @@ export async function importFile(store: Store, options: ImportOptions): Promise<
       encoding: table.assumed.encoding,
       mapping: options.mapping,
     });
-    const ids = insertDocuments(
-      store,
-      study.id,
-      importId,
-      docs.map((d, i) => ({
-        rowId: d.rowId,
-        question: d.question,
-        text: d.text,
-        language: decisions[i].language,
-        languageSource: decisions[i].source,
-        confidence: decisions[i].confidence,
-        declaredLanguage: d.declaredLanguage ?? null,
-        writtenLanguage: outcomes[i].written,
-        declaredCheck: decisions[i].declaredCheck ?? null,
-        mixedLanguage: decisions[i].mixed?.language ?? null,
-        mixedShare: decisions[i].mixed?.share ?? null,
-        linkKey: d.linkKey ?? null,
-        covariates: d.covariates,
-        weight: d.weight,
-        excluded: decisions[i].language === null ? 'undetermined' : null,
-      })),
-    );
+    const ids = insertDocuments(store, study.id, importId, stored);
     const vocab =
       existing && stampBefore !== plan.stamp
         ? rebuildVocabulary(store, study.id)
         : applyVocabulary(store, study.id, plan, ids);
-    const mine = new Set(ids);
     const excluded = exclusionSummary(store, study.id, importId);
     const perLanguage: Record<string, number> = {};
     const sources: Record<string, number> = {};
@@ -153,10 +139,12 @@ export async function importFile(store: Store, options: ImportOptions): Promise<
       format: table.format,
       encoding: table.assumed.encoding,
       ...(table.assumed.encodingConfidence !== undefined ? { encodingConfidence: table.assumed.encodingConfidence } : {}),
+      encodingNotes: table.assumed.encodingNotes ?? [],
       ...(table.assumed.delimiter !== undefined ? { delimiter: table.assumed.delimiter } : {}),
       ...(table.assumed.sheet !== undefined ? { sheet: table.assumed.sheet } : {}),
       rows: table.rows.length,
-      documents: mine.size,
+      documents: docs.length,
+      emptyAnswers: stored.length - docs.length,
       documentsPerLanguage: perLanguage,
       languageSources: sources,
       undetermined,
@@ -167,5 +155,41 @@ export async function importFile(store: Store, options: ImportOptions): Promise<
     setImportSummary(store, importId, summary);
     progress({ phase: 'done', done: ids.length, total: ids.length });
     return summary;
+  });
+}
+
+/**
+ * The rows to store, in file order: each answer with its language decision, each empty cell as
+ * a document left out with the reason 'empty' (its declared language kept, nothing detected).
+ */
+function storedDocuments(mapped: readonly MappedDocument[], answers: readonly MappedDocument[], outcomes: readonly LanguageOutcome[]): NewDocument[] {
+  let next = 0;
+  return mapped.map((d) => {
+    const common = {
+      rowId: d.rowId,
+      question: d.question,
+      text: d.text,
+      declaredLanguage: d.declaredLanguage ?? null,
+      linkKey: d.linkKey ?? null,
+      covariates: d.covariates,
+      weight: d.weight,
+    };
+    if (d.text === '') {
+      const declared = d.declaredLanguage ?? null;
+      return { ...common, language: declared, languageSource: declared ? 'declared' : 'undetermined', confidence: declared ? 1 : 0, writtenLanguage: null, excluded: 'empty' };
+    }
+    if (answers[next] !== d) throw new Error('The answers and their language decisions are out of step.');
+    const { decision, written } = outcomes[next++];
+    return {
+      ...common,
+      language: decision.language,
+      languageSource: decision.source,
+      confidence: decision.confidence,
+      writtenLanguage: written,
+      declaredCheck: decision.declaredCheck ?? null,
+      mixedLanguage: decision.mixed?.language ?? null,
+      mixedShare: decision.mixed?.share ?? null,
+      excluded: decision.language === null ? 'undetermined' : null,
+    };
   });
 }

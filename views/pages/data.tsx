@@ -15,6 +15,20 @@ export interface ImportRow {
   readonly undetermined: number;
   readonly excluded: Record<string, number>;
   readonly textColumns: string[];
+  readonly encodingConfidence?: number;
+  /** What the reader noticed about the encoding (mixed lines, mojibake), one sentence each. */
+  readonly encodingNotes?: readonly string[];
+}
+
+/** Encoding warnings, shown before import (mapping page) and after it (Data page). */
+function EncodingNotes(props: { notes?: readonly string[] }) {
+  if (!props.notes || props.notes.length === 0) return null;
+  return (
+    <Notice>
+      <strong>Check the encoding.</strong>
+      <ul class="encoding-notes">{props.notes.map((n) => <li>{n}</li>)}</ul>
+    </Notice>
+  );
 }
 
 export interface MemberRow {
@@ -58,6 +72,7 @@ export function DataPage(props: DataPageProps) {
           {fresh.undetermined > 0 && `, ${count(fresh.undetermined)} with undetermined language`}). Next: <a href={`${base}/languages`}>review the languages</a>.
         </Notice>
       )}
+      {fresh && <EncodingNotes notes={fresh.encodingNotes} />}
       {props.error && <Notice kind="error">{props.error}</Notice>}
       <p class="lead">Declared languages: {props.declaredLanguages.length ? props.declaredLanguages.join(', ') : 'any language Themata knows'}.</p>
       {props.imports.length === 0 ? (
@@ -81,7 +96,16 @@ export function DataPage(props: DataPageProps) {
             {props.imports.map((i) => (
               <tr>
                 <td>{i.fileName}</td>
-                <td>{i.format.toUpperCase()}, {i.encoding}</td>
+                <td>
+                  {i.format.toUpperCase()}, {i.encoding}
+                  {i.encodingConfidence !== undefined && i.encodingConfidence < 1 && <span class="hint"> (confidence {Math.round(100 * i.encodingConfidence)}%)</span>}
+                  {i.encodingNotes && i.encodingNotes.length > 0 && (
+                    <details>
+                      <summary>{i.encodingNotes.length === 1 ? '1 encoding warning' : `${i.encodingNotes.length} encoding warnings`}</summary>
+                      <ul>{i.encodingNotes.map((n) => <li>{n}</li>)}</ul>
+                    </details>
+                  )}
+                </td>
                 <td class="num">{bytes(i.size)}</td>
                 <td>{i.textColumns.join(', ')}</td>
                 <td class="num">{count(i.documents)}</td>
@@ -177,6 +201,8 @@ export function MappingPage(props: {
   columns: readonly MappingColumn[];
   roles: Record<string, string>;
   preview: readonly string[][];
+  /** Encoding warnings about this file, before it is imported. */
+  encodingNotes?: readonly string[];
   error?: string;
 }) {
   return (
@@ -186,6 +212,7 @@ export function MappingPage(props: {
         {props.fileName}: {props.format.toUpperCase()}, {count(props.rows)} rows. <strong>Read as:</strong> {props.assumed}. If the letters in the preview look wrong,
         save the file as UTF-8 and upload it again.
       </p>
+      <EncodingNotes notes={props.encodingNotes} />
       {props.error && <Notice kind="error">{props.error}</Notice>}
       <form method="post" action={`/studies/${props.studyId}/data/import`} class="stack" id="mapping-form">
         <CsrfField csrf={props.frame.csrf} />

@@ -28,7 +28,7 @@ function role(c: Context<AppEnv>, study: Study) {
 async function dataPage(c: Context<AppEnv>, study: Study, error?: string, status: 200 | 400 = 200) {
   const { store } = c.get('deps');
   const imports = listImports(store, study.id, 'answers').map((i) => {
-    const s = i.summary as { documentsPerLanguage?: Record<string, number>; undetermined?: number; excluded?: Record<string, number> };
+    const s = i.summary as { documentsPerLanguage?: Record<string, number>; undetermined?: number; excluded?: Record<string, number>; encodingConfidence?: number; encodingNotes?: { message: string }[] };
     return {
       id: i.id,
       fileName: i.fileName,
@@ -41,6 +41,8 @@ async function dataPage(c: Context<AppEnv>, study: Study, error?: string, status
       undetermined: s.undetermined ?? 0,
       excluded: s.excluded ?? {},
       textColumns: i.mapping.text,
+      ...(s.encodingConfidence !== undefined ? { encodingConfidence: s.encodingConfidence } : {}),
+      encodingNotes: (s.encodingNotes ?? []).map((n) => n.message),
     };
   });
   const r = role(c, study);
@@ -96,6 +98,7 @@ export function dataRoutes(): Hono<AppEnv> {
         columns={profiles}
         roles={ROLE_LABELS}
         preview={table.rows.slice(0, 8)}
+        encodingNotes={(table.assumed.encodingNotes ?? []).map((n) => n.message)}
         error={error}
       />,
       error ? 400 : 200,

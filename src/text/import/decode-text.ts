@@ -7,19 +7,31 @@
 // chardet (ICU's charset detectors). ISO-8859-1 is read as windows-1252, as browsers do (WHATWG
 // Encoding Standard, section 4.2 "Names and labels"), which only differs in 0x80–0x9F, where
 // ISO-8859-1 has unprintable control characters.
+//
+// A file that is not valid UTF-8 as a whole may still hold whole lines of UTF-8 beside lines in
+// a legacy single-byte encoding (an answer pasted in from another program): then each line is
+// read in its own encoding (decode-lines.ts) and the reader says which lines were which.
 
 import chardet from 'chardet';
 import iconv from 'iconv-lite';
 import { InputError } from '../types.js';
+import { checkMojibake } from './mojibake.js';
+import { bytesOfLines, decodeByLine, lineNumbers, looksLikeLegacyWords, scanLines, type LineScan } from './decode-lines.js';
 
 export interface DecodedText {
   readonly text: string;
   readonly encoding: string;
   /** 0..1; 1 for a byte-order mark or valid UTF-8. */
   readonly confidence: number;
+  /** Set when lines were read in different encodings: which lines (1-based) in which. */
+  readonly byLine?: { readonly legacyEncoding: string; readonly utf8Lines: number[]; readonly legacyLines: number[] };
+  /** A UTF-8 file with some invalid bytes: the lines (1-based) where U+FFFD replaced them. */
+  readonly damagedLines?: number[];
 }
 
 const utf8Strict = new TextDecoder('utf-8', { fatal: true, ignoreBOM: true });
+/** Decodes a Uint16Array of code units: its bytes are in the platform's byte order. */
+const codeUnits = new TextDecoder(new Uint8Array(Uint16Array.of(1).buffer)[0] === 1 ? 'utf-16le' : 'utf-16be', { ignoreBOM: true });
 
 /** chardet candidate names that iconv-lite reads, mapped to the name we report. */
 const LEGACY_NAMES: Readonly<Record<string, string>> = {
@@ -47,6 +59,9 @@ const LEGACY_NAMES: Readonly<Record<string, string>> = {
   Big5: 'Big5',
 };
 
+/** Legacy encodings with one byte per character: only these are mixed line by line with UTF-8. */
+const SINGLE_BYTE = new Set(Object.values(LEGACY_NAMES).filter((n) => /^(windows-125\d|ISO-8859-\d+|KOI8-R)$/.test(n)));
+
 /** Decode `bytes` (a whole text file); throws InputError when no encoding reads it sensibly. */
 export function decodeText(bytes: Uint8Array, fileName: string): DecodedText {
   const buf = Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength);
@@ -67,13 +82,19 @@ export function decodeText(bytes: Uint8Array, fileName: string): DecodedText {
   } catch {
     // Not strictly UTF-8: a few damaged bytes in a UTF-8 file, or a legacy encoding.
   }
-  const { sequences, invalid } = scanUtf8(buf);
+  const scan = scanLines(buf);
   // Legacy single-byte text almost never forms valid multi-byte UTF-8 sequences (RFC 3629,
   // section 10), so many valid sequences and a few bad bytes mean a damaged UTF-8 file, which
   // is better read as UTF-8 with U+FFFD at the bad bytes than as mojibake (common practice).
-  if (sequences >= 3 && invalid <= Math.max(1, 0.02 * sequences)) {
+  const damaged = scan.sequences >= 3 && scan.invalid <= Math.max(1, 0.02 * scan.sequences);
+  if (scan.kinds.includes('utf8') && scan.kinds.includes('legacy')) {
+    const mixed = decodeMixed(buf, scan, damaged, fileName);
+    if (mixed !== null) return mixed;
+  }
+  if (damaged) {
     const text = new TextDecoder('utf-8', { ignoreBOM: true }).decode(buf);
-    return checked(text, 'UTF-8', Math.max(0.5, 1 - invalid / sequences), fileName);
+    const decoded = checked(text, 'UTF-8', Math.max(0.5, 1 - scan.invalid / scan.sequences), fileName);
+    return { ...decoded, damagedLines: lineNumbers(scan, 'legacy') };
   }
   const guess = guessLegacy(buf);
   if (guess === null) {
@@ -83,33 +104,46 @@ export function decodeText(bytes: Uint8Array, fileName: string): DecodedText {
       fileName,
     );
   }
-  return checked(iconv.decode(buf, guess.name), guess.name, guess.confidence, fileName);
+  return checked(decodeLegacy(buf, guess.name), guess.name, guess.confidence, fileName);
 }
 
-/** Valid multi-byte UTF-8 sequences and bytes that cannot start or continue one (RFC 3629, section 4). */
-function scanUtf8(buf: Buffer): { sequences: number; invalid: number } {
-  let sequences = 0;
-  let invalid = 0;
-  let i = 0;
-  const n = buf.length;
-  while (i < n) {
-    const b = buf[i];
-    if (b < 0x80) {
-      i++;
-      continue;
-    }
-    const len = b >= 0xc2 && b <= 0xdf ? 2 : b >= 0xe0 && b <= 0xef ? 3 : b >= 0xf0 && b <= 0xf4 ? 4 : 0;
-    let ok = len > 0 && i + len <= n;
-    for (let k = 1; ok && k < len; k++) ok = (buf[i + k] & 0xc0) === 0x80;
-    if (ok) {
-      sequences++;
-      i += len;
-    } else {
-      invalid++;
-      i++;
-    }
+/**
+ * Lines in UTF-8 beside lines in one legacy single-byte encoding (decode-lines.ts): each line is
+ * read in its own encoding. The legacy lines' encoding is guessed from those lines alone, so the
+ * UTF-8 lines do not blur the guess. Null when the file is better read as one encoding.
+ */
+function decodeMixed(buf: Buffer, scan: LineScan, damaged: boolean, fileName: string): DecodedText | null {
+  const legacyBytes = Buffer.from(bytesOfLines(buf, scan, 'legacy'));
+  const guess = guessLegacy(legacyBytes);
+  if (guess === null || !SINGLE_BYTE.has(guess.name)) return null;
+  if (damaged && !looksLikeLegacyWords(decodeLegacy(legacyBytes, guess.name))) return null;
+  const text = decodeByLine(buf, scan, (bytes) => decodeLegacy(bytes, guess.name));
+  const decoded = checked(text, `${guess.name}, UTF-8 in some lines`, guess.confidence, fileName);
+  return { ...decoded, byLine: { legacyEncoding: guess.name, utf8Lines: lineNumbers(scan, 'utf8'), legacyLines: lineNumbers(scan, 'legacy') } };
+}
+
+/**
+ * windows-1252 as the WHATWG Encoding Standard's index reads it: the five unassigned bytes 0x81,
+ * 0x8D, 0x8F, 0x90 and 0x9D become U+0081…U+009D instead of U+FFFD, so a UTF-8 answer misread in
+ * such a file keeps every byte and can be repaired (encoding-notes.ts). iconv-lite gives the
+ * assigned characters; other legacy encodings go through iconv-lite as they are.
+ */
+const WINDOWS_1252 = Uint16Array.from({ length: 256 }, (_, b) => {
+  const c = iconv.decode(Buffer.from([b]), 'windows-1252').charCodeAt(0);
+  return c === 0xfffd ? b : c;
+});
+
+function decodeLegacy(bytes: Uint8Array, name: string): string {
+  if (name !== 'windows-1252') return iconv.decode(Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength), name);
+  // Code units through the UTF-16 decoder, in chunks so a large file needs no second copy.
+  const parts: string[] = [];
+  const chunk = new Uint16Array(Math.max(1, Math.min(bytes.length, 1 << 16)));
+  for (let start = 0; start < bytes.length; start += chunk.length) {
+    const n = Math.min(chunk.length, bytes.length - start);
+    for (let i = 0; i < n; i++) chunk[i] = WINDOWS_1252[bytes[start + i]];
+    parts.push(codeUnits.decode(chunk.subarray(0, n)));
   }
-  return { sequences, invalid };
+  return parts.join('');
 }
 
 function decodeUtf8(buf: Buffer, fileName: string): string {
@@ -178,6 +212,9 @@ function checked(text: string, encoding: string, confidence: number, fileName: s
     }
     if ((c < 0x20 && c !== 9 && c !== 10 && c !== 13) || (c >= 0x7f && c <= 0x9f) || c === 0xfffd) bad++;
   }
+  // Misread UTF-8 (mojibake.ts) holds U+0080–U+009F too, e.g. "す" as "ã\u0081™"; it is repaired
+  // after parsing, so its characters are not garbage. Counted again only on this rare path.
+  if (text.length > 0 && bad > 0.02 * text.length && bad > 2) bad = badCharacters(text.replace(/[^\x00-\x7f]+/g, (run) => checkMojibake(run).fixed ?? run));
   if (text.length > 0 && bad > 0.02 * text.length && bad > 2) {
     throw new InputError(
       `${fileName}: read as ${encoding}, the text is full of control or unreadable characters ` +
@@ -186,4 +223,13 @@ function checked(text: string, encoding: string, confidence: number, fileName: s
     );
   }
   return { text, encoding, confidence };
+}
+
+function badCharacters(text: string): number {
+  let bad = 0;
+  for (let i = 0; i < text.length; i++) {
+    const c = text.charCodeAt(i);
+    if ((c < 0x20 && c !== 9 && c !== 10 && c !== 13) || (c >= 0x7f && c <= 0x9f) || c === 0xfffd) bad++;
+  }
+  return bad;
 }

@@ -19,6 +19,8 @@ export interface MapColumnsOptions {
   languages?: string[];
   /** Bounds on answers (default INPUT_LIMITS). */
   limits?: InputLimits;
+  /** Also return empty text cells, as documents with text '', so an import can list them as left out. */
+  keepEmpty?: boolean;
 }
 
 /** Distinct unknown language values kept in the report (the rest are only counted). */
@@ -129,7 +131,7 @@ export function mapColumnsWithReport(table: Table, mapping: ColumnMapping, optio
       const text = row[textCols[t]].trim();
       if (text === '') {
         emptyTextCells++;
-        continue;
+        if (!options.keepEmpty) continue;
       }
       if (text.length > limits.maxAnswerChars) {
         problems.add(

@@ -7,11 +7,12 @@
 
 import { InputError, type Table, type TableFormat } from '../types.js';
 import { decodeText } from './decode-text.js';
+import { withEncodingNotes } from './encoding-notes.js';
 import { readDelimited } from './read-delimited.js';
 import { readJsonl } from './read-jsonl.js';
 import { readSav } from './read-sav.js';
 import { readXlsx } from './read-xlsx.js';
-import { checkCells, checkHeader } from './input-limits.js';
+import { checkCells, checkHeader, clip } from './input-limits.js';
 import { formatBytes } from './zip-guard.js';
 
 export interface ReadTableOptions {
@@ -53,7 +54,7 @@ export async function readTable(bytes: Uint8Array, fileName: string, options: Re
     if (err instanceof InputError) throw err;
     // A library failing on hostile or damaged input is still the file's fault, not a crash.
     throw new InputError(
-      `${fileName}: the file could not be read (${(err as Error)?.message ?? String(err)}).`,
+      `${fileName}: the file could not be read (${clip(String((err as Error)?.message ?? err), 200)}).`,
       fileName,
     );
   }
@@ -69,27 +70,27 @@ async function readByKind(
 ): Promise<Table> {
   if (kind === 'xlsx') {
     const r = await readXlsx(buf, fileName, sheet, { maxRows, maxUnpackedBytes });
-    return {
+    return withEncodingNotes({
       fileName,
       format: 'xlsx',
       columns: r.columns,
       rows: r.rows,
       assumed: { encoding: 'UTF-8', encodingConfidence: 1, sheet: r.sheet, sheets: r.sheets },
-    };
+    });
   }
   if (kind === 'sav') {
     const r = await readSav(buf, fileName, maxRows);
     // The other readers check as they read; an SPSS file's variables are bounded the same way.
     checkHeader(r.columns, fileName);
     checkCells(r.rows, r.columns, fileName);
-    return {
+    return withEncodingNotes({
       fileName,
       format: 'sav',
       columns: r.columns,
       rows: r.rows,
       assumed: { encoding: r.encoding, encodingConfidence: r.encodingConfidence },
       labelledColumns: r.labelledColumns,
-    };
+    });
   }
   const decoded = decodeText(buf, fileName);
   if (decoded.text.trim() === '') throw new InputError(`${fileName}: the file is blank (no text).`, fileName);
@@ -97,16 +98,17 @@ async function readByKind(
   const isJson = kind === 'jsonl' || (kind === 'text' && looksLikeJson(decoded.text));
   if (isJson) {
     const r = readJsonl(decoded.text, fileName, maxRows);
-    return { fileName, format: 'jsonl', columns: r.columns, rows: r.rows, assumed };
+    return withEncodingNotes({ fileName, format: 'jsonl', columns: r.columns, rows: r.rows, assumed }, decoded);
   }
   const r = readDelimited(decoded.text, fileName, kind === 'tsv' ? '\t' : ',', maxRows);
-  return {
+  const table: Table = {
     fileName,
     format: r.delimiter === '\t' ? 'tsv' : 'csv',
     columns: r.columns,
     rows: r.rows,
     assumed: { ...assumed, delimiter: r.delimiter },
   };
+  return withEncodingNotes(table, decoded);
 }
 
 /** A file of unknown kind is JSON when it starts with "[" or its first line is a JSON object. */

@@ -75,7 +75,9 @@ export function prepareText(
     const { text } = docs[i];
     const language = keyOf(docs[i].language);
     const counted = reference[i] === 0;
-    if (counted && isNonAnswer(text, language, study)) excluded[i] = 'non-answer';
+    // An empty answer stays a document so it is listed as left out, never silently dropped.
+    if (text.trim() === '') excluded[i] = 'empty';
+    else if (counted && isNonAnswer(text, language, study)) excluded[i] = 'non-answer';
     else if (language === null) excluded[i] = 'undetermined';
     else {
       const state = stateFor(states, language, settings, study);
