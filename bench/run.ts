@@ -18,6 +18,7 @@ const sections: Record<string, () => Promise<Section>> = {
   sampler: async () => (await import('./sampler.js')).runBench,
   web: async () => (await import('./web.js')).runBench,
   load: async () => (await import('./load.js')).runBench,
+  alignment: async () => (await import('./alignment.js')).runBench,
 };
 
 const program = new Command()

@@ -40,8 +40,8 @@ export interface FitSettings {
   warmStartSweeps: number;
   /**
    * Start search (start-search.ts): this many independent short chains, each improved by
-   * merge–split perturbations, and the most probable becomes the start. 0 = off: one chain
-   * from the initialization above.
+   * merge–split perturbations, and the most probable becomes the start. 0 = off (the default,
+   * and what the services use): one chain from the initialization above.
    */
   startChains: number;
   /** Sweeps of each search chain before its perturbations. */

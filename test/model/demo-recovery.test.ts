@@ -46,8 +46,10 @@ beforeAll(async () => {
     optimizeEvery: 10,
     seed: Number(process.env.DEMO_SEED ?? 20251),
     samplerFactory: createFastSampler,
-    // The start search (src/model/start-search.ts) with the workbench's setting for modest fits
-    // (startSearchFor in src/services/fit-engine.ts): two chains, 30 perturbations each.
+    // The model's start search (src/model/start-search.ts): two chains, 30 merge–split and
+    // language-reset perturbations each, on the whole corpus. The workbench does not run it (it
+    // starts from the linked groups; see fitCorpus in src/services/fit-engine.ts): this test checks
+    // that the model can recover every planted theme, not the workbench's default.
     // DEMO_SEED, DEMO_CHAINS and DEMO_PERT override them to check other seeds by hand.
     startChains: Number(process.env.DEMO_CHAINS ?? 2),
     startPerturbations: Number(process.env.DEMO_PERT ?? 30),
