@@ -113,7 +113,7 @@ export function themeRoutes(ctx: ResultContext): Hono<AppEnv> {
       };
     });
     const groups = data.covariateNames
-      .filter((n) => n !== 'question' || new Set(data.answers.map((a) => a.question)).size > 1)
+      .filter((n) => n !== 'question' || new Set(data.answers.filter((_, d) => data.isAnswer[d]).map((a) => a.question)).size > 1)
       .map((covariate) => {
         const res = data.contrast(covariate);
         return { covariate, rows: res.shares.filter((r) => r.theme === k).map((r) => ({ level: r.level, share: r.share, low: r.low, high: r.high, n: r.n, effectiveN: r.effectiveN })) };
