@@ -10,7 +10,7 @@
 import type ExcelJSModule from 'exceljs';
 import { InputError } from '../types.js';
 import { uniqueColumnNames } from './column-names.js';
-import { checkCell, checkColumnCount, checkHeader, INPUT_LIMITS, listNames, type InputLimits } from './input-limits.js';
+import { checkCell, checkColumnCount, checkHeader, clip, INPUT_LIMITS, listNames, type InputLimits } from './input-limits.js';
 import { guardZip } from './zip-guard.js';
 
 export interface XlsxResult {
@@ -41,7 +41,7 @@ export async function readXlsx(
     await workbook.xlsx.load(buf as unknown as ArrayBuffer);
   } catch (err) {
     throw new InputError(
-      `${fileName}: the file could not be read as an XLSX workbook (${(err as Error).message}). ` +
+      `${fileName}: the file could not be read as an XLSX workbook (${clip(String((err as Error)?.message ?? err), 200)}). ` +
         'Open it in a spreadsheet program, save it as .xlsx (or CSV UTF-8) and import it again.',
       fileName,
     );
