@@ -210,3 +210,67 @@ describe('Contrasts', () => {
     expect(page).toContain('Translations of the same answer were counted as one answer when computing intervals.');
   });
 });
+
+describe('the HTML report', () => {
+  async function report(s: { sid: number; rid: number }): Promise<string> {
+    const res = await postForm(t, `${base(s)}/export`, csrf);
+    expect(res.status).toBe(303);
+    const { listRunExports, getRunExportBytes } = await import('../../src/store/index.js');
+    const file = listRunExports(t.store, s.rid).find((f) => f.fileName === 'report.html')!;
+    return new TextDecoder().decode(getRunExportBytes(t.store, file.id)!.bytes);
+  }
+
+  it('opens with a summary (labelled themes, shares, clearest differences with intervals), then the detail, with print styles', async () => {
+    const html = await report(linked);
+    const summary = html.indexOf('id="summary"');
+    const detail = html.indexOf('id="themes-detail"');
+    expect(summary).toBeGreaterThan(0);
+    expect(detail).toBeGreaterThan(summary);
+    expect(html.indexOf('By district')).toBeGreaterThan(detail);
+    // Labels accepted above, never "Theme 4 (Theme 4)".
+    expect(html).toContain('1. Play areas');
+    expect(html).not.toMatch(/Theme (\d+) \(Theme \1\)/);
+    expect(html).toContain('Clearest differences between groups');
+    expect(html).toMatch(/id="main-differences"|No difference between groups is clear at the 95% level/);
+    // Groups as one table each, not one chart per theme and group.
+    expect((html.match(/<figure class="chart"/g) ?? []).length).toBeLessThanOrEqual(2);
+    expect(html).toMatch(/<table class="list shares">/);
+    expect(html).toMatch(/\d+\.\d%<span class="interval"> \d+\.\d%–\d+\.\d%<\/span>/);
+    expect(html).toContain('@media print');
+    expect(html).toContain('break-before: page');
+    // DESIGN §10 cautions, in the summary.
+    const cautions = html.slice(summary, detail);
+    expect(cautions).toContain('they are not causes');
+    expect(cautions).toContain('only as good as the survey weights');
+    expect(cautions).toContain('intervals assume answers are independent');
+    expect(cautions).toContain('personal data');
+    expect(html).not.toContain('<script');
+  });
+
+  it('marks suggested labels and warns when the languages were not tied together', async () => {
+    const html = await report(unlinked);
+    expect(html).toContain('are suggested from each theme');
+    expect(html).toMatch(/<td>1\. [^<]+ \*<\/td>/);
+    expect(html).toContain('were not tied together');
+  });
+});
+
+describe('theme names', () => {
+  it('calls a theme with almost no answers so rather than inventing words for it', async () => {
+    const { themeNames } = await import('../../src/server/results/theme-names.js');
+    const { RunDataCache } = await import('../../src/server/results/run-data.js');
+    const { getStudy } = await import('../../src/store/index.js');
+    const data = new RunDataCache(t.store).get(unlinked.rid)!;
+    const shares = data.shares as Float64Array;
+    const kept = Float64Array.from(shares);
+    shares.fill(0);
+    shares[0] = 1;
+    try {
+      const names = themeNames(t.store, getStudy(t.store, unlinked.sid)!, data);
+      expect(names.slice(1).map((n) => n.suggestion)).toEqual(['almost no answers', 'almost no answers', 'almost no answers']);
+      expect(names[0].suggestion).not.toBe('almost no answers');
+    } finally {
+      shares.set(kept);
+    }
+  });
+});

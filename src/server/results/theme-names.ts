@@ -56,11 +56,15 @@ export function themeSuggestions(study: Pick<Study, 'languages'>, data: RunData)
   return list;
 }
 
+/** Below this share a theme's words are its prior's, not the answers' (common practice). */
+const ALMOST_EMPTY = 0.001;
+
 export function themeNames(store: Store, study: Study, data: RunData): ThemeName[] {
   const saved = getThemeLabels(store, data.model.run.id);
   return themeSuggestions(study, data).map((s) => {
     const label = saved.get(s.theme) ?? null;
-    return { k: s.theme, text: label ?? s.label, saved: label, suggestion: s.label, suggested: label === null, words: s.words };
+    const suggestion = data.shares[s.theme] < ALMOST_EMPTY ? 'almost no answers' : s.label;
+    return { k: s.theme, text: label ?? suggestion, saved: label, suggestion, suggested: label === null, words: s.words };
   });
 }
 

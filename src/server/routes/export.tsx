@@ -1,11 +1,9 @@
 // Export (prepare the files of DESIGN §8 and the printable report; download them) and Apply
 // (code a new file with this run). Downloads come only from the run's own prepared files,
 // looked up by id and checked to belong to this run; names are never used as paths.
-import { readFileSync } from 'node:fs';
 import { Hono, type Context } from 'hono';
 import { HTTPException } from 'hono/http-exception';
 import { ApplyPage, ExportPage } from '../../../views/pages/export.js';
-import { ReportDocument } from '../../../views/pages/report.js';
 import { applyRun, buildBundle } from '../../services/index.js';
 import { describeCovariateNote } from '../../services/apply-covariates.js';
 import { bundleFileName, exportFiles, exportTables } from '../../services/export-run.js';
@@ -15,13 +13,10 @@ import { InputError } from '../../text/types.js';
 import { scanUpload } from '../../services/scan-upload.js';
 import { finishedRunFor, frame, studyFor } from '../access.js';
 import { renderPage } from '../render.js';
-import type { RunData, RunDataCache } from '../results/run-data.js';
+import { reportHtml } from '../results/report.js';
+import type { RunDataCache } from '../results/run-data.js';
 import type { AppEnv } from '../types.js';
 import { text } from './forms.js';
-
-// The report inlines the workbench's own stylesheet and its few report-only rules after it.
-const APP_CSS = new URL('../../../public/app.css', import.meta.url);
-const REPORT_CSS = new URL('../../../public/report.css', import.meta.url);
 
 function canEdit(c: Context<AppEnv>, study: Study): boolean {
   const user = c.get('user');
@@ -33,31 +28,6 @@ function canEdit(c: Context<AppEnv>, study: Study): boolean {
 function contentDisposition(name: string): string {
   const ascii = name.replace(/[^\x20-\x7e]/g, '_').replace(/["\\]/g, '_');
   return `attachment; filename="${ascii}"; filename*=UTF-8''${encodeURIComponent(name)}`;
-}
-
-async function reportHtml(study: Study, data: RunData): Promise<string> {
-  const { model } = data;
-  const s = model.run.settings;
-  const groups = data.covariateNames
-    .filter((n) => n !== 'question')
-    .map((covariate) => {
-      const res = data.contrast(covariate);
-      return { covariate, levels: [...res.levels], rows: res.shares.map((r) => ({ level: r.level, theme: r.theme, share: r.share, low: r.low, high: r.high, n: r.n, effectiveN: r.effectiveN })) };
-    });
-  const node = (
-    <ReportDocument
-      study={study.name}
-      run={model.run.name}
-      createdAt={new Date().toISOString()}
-      settings={`${s.themes} themes, ${s.sweeps} sweeps, seed ${s.seed}.`}
-      css={readFileSync(APP_CSS, 'utf8') + '\n' + readFileSync(REPORT_CSS, 'utf8')}
-      languages={model.languages}
-      themes={model.labels.map((label, k) => ({ k, label, share: data.shares[k], words: Object.fromEntries(model.languages.map((l) => [l, data.topWords(k, l, 8).map((w) => w.word)])) }))}
-      groups={groups}
-      trace={model.diagnostics.trace}
-    />
-  );
-  return `<!DOCTYPE html>${await node.toString()}`;
 }
 
 export function exportRoutes(cache: RunDataCache): Hono<AppEnv> {
@@ -98,7 +68,7 @@ export function exportRoutes(cache: RunDataCache): Hono<AppEnv> {
     const tables = exportTables(store, data.model, { answerText: chosen('answerText') });
     const files = exportFiles(store, data.model, tables);
     if (chosen('workbook')) files.splice(3, 0, await exportWorkbook(tables));
-    const report = new TextEncoder().encode(await reportHtml(study, data));
+    const report = new TextEncoder().encode(await reportHtml(store, study, data));
     inTransaction(store, () => {
       for (const f of files) saveRunExport(store, run.id, f.name, f.mediaType, f.bytes);
       saveRunExport(store, run.id, 'report.html', 'text/html; charset=utf-8', report);
