@@ -7,6 +7,7 @@
 // θ = (n_dk + α_k)/(n_d + A) over the sweeps after burn-in. Word ids outside the fitted
 // vocabulary (−1 or ≥ V_ℓ) are skipped and counted.
 import { Xoshiro128 } from './rng.js';
+import type { Rng } from './types.js';
 
 export interface FoldInModel {
   readonly K: number;
@@ -44,55 +45,86 @@ export function foldIn(model: FoldInModel, docs: readonly FoldInDocument[], sett
   const rng = Xoshiro128.fromSeed(settings.seed ?? 1);
   const { K, phi, lambda, numFeatures: F } = model;
   const alpha = new Float64Array(K);
-  const nk = new Int32Array(K);
-  const cum = new Float64Array(K);
   const theta: Float64Array[] = [];
   const unknownWords = new Int32Array(docs.length);
   docs.forEach((doc, d) => {
-    const ph = phi[doc.language];
-    if (!ph) throw new Error(`Document ${d + 1} has language index ${doc.language}, which the model does not have.`);
-    const V = ph.length / K;
-    let A = 0;
+    if (!phi[doc.language]) throw new Error(`Document ${d + 1} has language index ${doc.language}, which the model does not have.`);
     for (let k = 0; k < K; k++) {
       let s = lambda[k * F];
       if (doc.features) for (let f = 1; f < F; f++) s += lambda[k * F + f] * doc.features[f];
       alpha[k] = Math.exp(s);
-      A += alpha[k];
     }
-    const known: number[] = [];
-    for (const w of doc.tokens) {
-      if (w >= 0 && w < V) known.push(w);
-      else unknownWords[d]++;
-    }
-    const n = known.length;
     const out = new Float64Array(K);
-    if (n === 0) {
-      for (let k = 0; k < K; k++) out[k] = alpha[k] / A;
-      theta.push(out);
-      return;
-    }
-    const z = new Uint16Array(n);
-    nk.fill(0);
-    for (let i = 0; i < n; i++) nk[(z[i] = rng.nextInt(K))]++;
-    for (let t = 0; t < sweeps; t++) {
-      for (let i = 0; i < n; i++) {
-        nk[z[i]]--;
-        const w = known[i];
-        let total = 0;
-        for (let k = 0; k < K; k++) {
-          total += (nk[k] + alpha[k]) * ph[k * V + w];
-          cum[k] = total;
-        }
-        const u = rng.nextDouble() * total;
-        let k = 0;
-        while (k < K - 1 && cum[k] <= u) k++;
-        z[i] = k;
-        nk[k]++;
-      }
-      if (t >= burnIn) for (let k = 0; k < K; k++) out[k] += (nk[k] + alpha[k]) / (n + A);
-    }
-    for (let k = 0; k < K; k++) out[k] /= sweeps - burnIn;
+    unknownWords[d] = foldInGroup(phi, K, [doc], alpha, { sweeps, burnIn }, rng, out);
     theta.push(out);
   });
   return { theta, unknownWords };
+}
+
+/**
+ * θ of one link group from the tokens of its documents (possibly in several languages) under a
+ * given α, written into `out` (the method above; a group's documents share one mixture, as in
+ * the fit). Draws from `rng`, so a caller folding in many groups keeps one stream. Returns the
+ * number of unknown words skipped; a group without known words gets α normalised.
+ */
+export function foldInGroup(
+  phi: readonly Float64Array[],
+  K: number,
+  parts: readonly { readonly language: number; readonly tokens: Int32Array }[],
+  alpha: Float64Array,
+  settings: { sweeps: number; burnIn: number },
+  rng: Rng,
+  out: Float64Array = new Float64Array(K),
+): number {
+  const rows: Float64Array[] = [];
+  const words: number[] = [];
+  let unknown = 0;
+  for (const part of parts) {
+    const table = phi[part.language];
+    const V = table ? table.length / K : 0;
+    for (const w of part.tokens) {
+      if (w >= 0 && w < V) {
+        rows.push(table);
+        words.push(w);
+      } else unknown++;
+    }
+  }
+  let aSum = 0;
+  for (let k = 0; k < K; k++) aSum += alpha[k];
+  out.fill(0);
+  const n = words.length;
+  if (n === 0) {
+    for (let k = 0; k < K; k++) out[k] = alpha[k] / aSum;
+    return unknown;
+  }
+  const z = new Int32Array(n);
+  const nk = new Float64Array(K);
+  const cum = new Float64Array(K);
+  for (let i = 0; i < n; i++) nk[(z[i] = rng.nextInt(K))]++;
+  let kept = 0;
+  const burnIn = Math.min(settings.burnIn, settings.sweeps - 1);
+  for (let s = 1; s <= settings.sweeps; s++) {
+    for (let i = 0; i < n; i++) {
+      const table = rows[i];
+      const V = table.length / K;
+      const w = words[i];
+      nk[z[i]]--;
+      let total = 0;
+      for (let k = 0; k < K; k++) {
+        total += (nk[k] + alpha[k]) * table[k * V + w];
+        cum[k] = total;
+      }
+      const u = rng.nextDouble() * total;
+      let k = 0;
+      while (k < K - 1 && cum[k] <= u) k++;
+      z[i] = k;
+      nk[k]++;
+    }
+    if (s > burnIn) {
+      for (let k = 0; k < K; k++) out[k] += (nk[k] + alpha[k]) / (n + aSum);
+      kept++;
+    }
+  }
+  for (let k = 0; k < K; k++) out[k] /= kept;
+  return unknown;
 }

@@ -31,5 +31,5 @@ export { initialAssignments } from './initialize.js';
 export { searchStart } from './start-search.js';
 export type { StartSearchSettings, StartState } from './start-search.js';
 export type { FitHooks, FitResult, FitSettings, SweepProgress } from './fit.js';
-export { foldIn } from './fold-in.js';
+export { foldIn, foldInGroup } from './fold-in.js';
 export type { FoldInDocument, FoldInModel, FoldInResult, FoldInSettings } from './fold-in.js';

@@ -1,11 +1,8 @@
 // Mixtures for answers the fit did not see (held-out answers, answers added later, a new wave
-// coded with a saved run): Gibbs sampling on each document's own tokens with φ̂ fixed, θ
-// averaged over post-burn-in sweeps ("Evaluation methods for topic models", Wallach et al.,
-// ICML 2009, §4: the document-completion setting fixes the topic-word distributions). Unknown
-// words (id < 0 or outside the vocabulary) are skipped and counted.
-import { encodeCovariates, type FeatureEncoding } from '../model/features.js';
-import { Xoshiro128 } from '../model/rng.js';
-import type { Rng } from '../model/types.js';
+// coded with a saved run), in the shapes the checks, exports and Apply use. The numerics are the
+// model's (src/model/fold-in.ts: Gibbs sampling with φ̂ fixed; src/model/features.ts: α from
+// λ and the covariates); this file only picks the random stream and the settings.
+import { alphaFromLambda, encodeCovariates, foldInGroup as modelFoldInGroup, Xoshiro128, type FeatureEncoding, type Rng } from '../model/index.js';
 
 export interface FoldInDocument {
   /** Index into `phi`. */
@@ -31,22 +28,22 @@ export interface FoldInResult {
 /** Default: 50 sweeps with 20 burn-in are plenty for one short answer (common practice). */
 export const DEFAULT_FOLD_IN: FoldInSettings = { sweeps: 50, burnIn: 20, seed: 1 };
 
+/** Stream of the fold-in's generator (apart from the fit's and the held-out split's). */
+const FOLD_IN_STREAM = 104729;
+
 /** `phi[ℓ]` is K×V_ℓ row-major (φ_kw at k·V_ℓ + w), as the model returns it. */
 export function foldInDocuments(phi: readonly Float64Array[], K: number, docs: readonly FoldInDocument[], settings: FoldInSettings = DEFAULT_FOLD_IN): FoldInResult {
   const D = docs.length;
   const theta = new Float64Array(D * K);
   const unknownWords = new Int32Array(D);
-  const rng = Xoshiro128.fromSeed(settings.seed, 104729);
+  const rng = Xoshiro128.fromSeed(settings.seed, FOLD_IN_STREAM);
   for (let d = 0; d < D; d++) {
-    unknownWords[d] = foldInGroup(phi, K, [docs[d]], docs[d].alpha, settings, rng, theta.subarray(d * K, (d + 1) * K));
+    unknownWords[d] = modelFoldInGroup(phi, K, [docs[d]], docs[d].alpha, settings, rng, theta.subarray(d * K, (d + 1) * K));
   }
   return { theta, unknownWords };
 }
 
-/**
- * θ of one link group from the tokens of its documents (possibly in several languages), written
- * into `out`; returns the number of unknown words skipped.
- */
+/** θ of one link group (the model's foldInGroup), for callers that keep their own generator. */
 export function foldInGroup(
   phi: readonly Float64Array[],
   K: number,
@@ -56,77 +53,19 @@ export function foldInGroup(
   rng: Rng,
   out: Float64Array = new Float64Array(K),
 ): number {
-  const rows: Float64Array[] = [];
-  const words: number[] = [];
-  let unknown = 0;
-  for (const part of parts) {
-    const table = phi[part.language];
-    const V = table ? table.length / K : 0;
-    for (const w of part.tokens) {
-      if (w >= 0 && w < V) {
-        rows.push(table);
-        words.push(w);
-      } else unknown++;
-    }
-  }
-  const vocab = rows.map((t) => t.length / K);
-  let aSum = 0;
-  for (let k = 0; k < K; k++) aSum += alpha[k];
-  out.fill(0);
-  if (words.length === 0) {
-    for (let k = 0; k < K; k++) out[k] = alpha[k] / aSum;
-    return unknown;
-  }
-  const n = words.length;
-  const z = new Int32Array(n);
-  const nk = new Float64Array(K);
-  const p = new Float64Array(K);
-  for (let i = 0; i < n; i++) nk[(z[i] = rng.nextInt(K))]++;
-  let kept = 0;
-  const burnIn = Math.min(settings.burnIn, settings.sweeps - 1);
-  for (let s = 1; s <= settings.sweeps; s++) {
-    for (let i = 0; i < n; i++) {
-      const table = rows[i];
-      const V = vocab[i];
-      const w = words[i];
-      nk[z[i]]--;
-      let total = 0;
-      for (let k = 0; k < K; k++) {
-        total += (nk[k] + alpha[k]) * table[k * V + w];
-        p[k] = total;
-      }
-      const u = rng.nextDouble() * total;
-      let k = 0;
-      while (k < K - 1 && p[k] <= u) k++;
-      z[i] = k;
-      nk[k]++;
-    }
-    if (s > burnIn) {
-      for (let k = 0; k < K; k++) out[k] += (nk[k] + alpha[k]) / (n + aSum);
-      kept++;
-    }
-  }
-  for (let k = 0; k < K; k++) out[k] /= kept;
-  return unknown;
+  return modelFoldInGroup(phi, K, parts, alpha, settings, rng, out);
 }
 
 /**
- * α of one answer from its covariates: α_k = exp(λ_k · x) with x encoded as in the fit
- * (Mimno & McCallum, UAI 2008, eq. 1); a level never seen in the fit counts as the baseline.
+ * α of one answer from its covariates, encoded as in the fit (a level never seen in the fit
+ * counts as the baseline): the model's alphaFromLambda for one pattern.
  */
-export function alphaForCovariates(
-  lambda: Float64Array,
-  encoding: FeatureEncoding | null,
-  K: number,
-  covariates: Record<string, string | number | null>,
-): Float64Array {
+export function alphaForCovariates(lambda: Float64Array, encoding: FeatureEncoding | null, K: number, covariates: Record<string, string | number | null>): Float64Array {
   const F = lambda.length / K;
   const x = encoding ? encodeCovariates(covariates, encoding) : Float64Array.of(1);
-  const alpha = new Float64Array(K);
-  for (let k = 0; k < K; k++) {
-    let s = 0;
-    for (let f = 0; f < F && f < x.length; f++) s += lambda[k * F + f] * x[f];
-    alpha[k] = Math.exp(s);
-  }
-  return alpha;
+  if (x.length === F) return alphaFromLambda(lambda, x, K, F);
+  // A shorter encoding (intercept only) multiplies the features it has.
+  const padded = new Float64Array(F);
+  padded.set(x.subarray(0, F));
+  return alphaFromLambda(lambda, padded, K, F);
 }
