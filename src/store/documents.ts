@@ -47,6 +47,8 @@ export interface DocumentTokens {
   readonly covariates: Record<string, string | number | null>;
   readonly weight: number;
   readonly tokens: Int32Array;
+  /** A glossary's term list (DESIGN §3): a link-group member for the fit, never an answer. */
+  readonly glossary: boolean;
 }
 
 interface DocumentRow {
@@ -243,17 +245,17 @@ export function listDocumentTexts(store: Store, studyId: number): { ids: Int32Ar
 export function listDocumentTokens(store: Store, studyId: number): DocumentTokens[] {
   const rows = store.db
     .prepare(
-      `SELECT id, vocabulary_language, link_key, covariates, weight, tokens FROM documents
+      `SELECT id, vocabulary_language, link_key, covariates, weight, tokens, ${GLOSSARY_DOCUMENTS} FROM documents
        WHERE study_id = ? AND excluded IS NULL AND vocabulary_language IS NOT NULL AND tokens IS NOT NULL ORDER BY id`,
     )
     .raw(true)
-    .all(studyId) as [number, string, string | null, string, number, Buffer][];
+    .all(studyId) as [number, string, string | null, string, number, Buffer, number][];
   // Covariate rows repeat a handful of patterns: parse each distinct JSON text once.
   const parsed = new Map<string, Record<string, string | number | null>>();
   return rows.map((r) => {
     let covariates = parsed.get(r[3]);
     if (!covariates) parsed.set(r[3], (covariates = JSON.parse(r[3]) as Record<string, string | number | null>));
-    return { id: r[0], language: r[1], linkKey: r[2], covariates, weight: r[4], tokens: int32FromBlob(r[5]) };
+    return { id: r[0], language: r[1], linkKey: r[2], covariates, weight: r[4], tokens: int32FromBlob(r[5]), glossary: r[6] === 1 };
   });
 }
 

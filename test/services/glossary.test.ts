@@ -112,6 +112,13 @@ describe('importGlossary', () => {
     // Answers have no link key (one group each); each glossary row with words is one group.
     const rowsWithWords = new Set(S.listDocumentTokens(ctx.store, answers.studyId).filter((d) => d.linkKey?.startsWith('glossary:')).map((d) => d.linkKey)).size;
     expect(withGlossary.corpus.numGroups).toBe(without.corpus.numGroups + rowsWithWords);
+    // Held-out answers are drawn as before; glossary rows are links, never held out.
+    const split = prepareCorpus(ctx.store, createFitRun(ctx.store, 'Emoji', { themes: 4, sweeps: 10, holdout: 0.5, name: 'split' }));
+    const glossaryIds = new Set(S.listDocumentTokens(ctx.store, answers.studyId).filter((d) => d.glossary).map((d) => d.id));
+    expect(glossaryIds.size).toBe(added);
+    expect(split.heldOutIds.length).toBeGreaterThan(without.documentIds.length * 0.3);
+    expect([...split.heldOutIds].filter((id) => glossaryIds.has(id))).toEqual([]);
+    expect([...split.documentIds].filter((id) => glossaryIds.has(id))).toHaveLength(added);
   });
 
   it('reads synonyms separated by ";" or "/" into one document per language, and skips one-language rows', async () => {
