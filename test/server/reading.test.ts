@@ -53,6 +53,11 @@ async function studyWithRun(name: string, csv: string, roles: Record<string, str
 
 let linked: { sid: number; rid: number };
 let unlinked: { sid: number; rid: number };
+let glossed: { sid: number; rid: number };
+
+/** A researcher's term list for the park survey: one row per concept, one column per language. */
+const GLOSSARY = ['en,es', 'playground,parque infantil', 'swings,columpios', 'fence,valla', 'dogs,perros', 'pond,estanque', 'ducks,patos', 'toilets,baños',
+  'cleaning,limpieza', 'lighting,luces', 'paths,caminos', 'drainage,drenaje', 'rain,lluvia', 'benches,bancos', 'shade,sombra', 'trees,árboles'].join('\n') + '\n';
 let second = 0;
 
 beforeAll(async () => {
@@ -60,6 +65,17 @@ beforeAll(async () => {
   const roles = { 'role-0': 'id', 'role-1': 'text', 'role-2': 'language', 'role-3': 'categorical', 'role-4': 'weight' };
   linked = await studyWithRun('Linked park', linkedSurvey(60), { ...roles, 'role-5': 'link' }, '0.3');
   unlinked = await studyWithRun('Unlinked park', inventedSurvey(80), roles, '0.1');
+  {
+    const res = await postForm(t, '/studies', { name: 'Glossed park', languages: 'en, es', ...csrf });
+    const sid = idFrom(res.headers.get('Location'));
+    const up = await postFile(t, `/studies/${sid}/data/upload`, csrf, { name: 'park.csv', bytes: inventedSurvey(80) });
+    const key = (await up.text()).match(/name="upload" value="([^"]+)"/)![1];
+    await postForm(t, `/studies/${sid}/data/import`, { upload: key, ...roles, ...csrf });
+    const { importGlossary } = await import('../../src/services/index.js');
+    await importGlossary(t.store, { study: sid, bytes: new TextEncoder().encode(GLOSSARY), fileName: 'park-terms.csv' });
+    const run = await postForm(t, `/studies/${sid}/runs`, { themes: '4', sweeps: '60', burnIn: '10', seed: '5', threads: '1', holdout: '0', ...csrf });
+    glossed = { sid, rid: idFrom(run.headers.get('Location'), /\/runs\/(\d+)/) };
+  }
   const r2 = await postForm(t, `/studies/${linked.sid}/runs`, { name: 'second seed', themes: '4', sweeps: '60', burnIn: '10', seed: '9', threads: '1', holdout: '0.3', covariates: 'district', ...csrf });
   second = idFrom(r2.headers.get('Location'), /\/runs\/(\d+)/);
   await t.queue.idle();
@@ -182,6 +198,19 @@ describe('languages not tied together', () => {
     expect(notice).toContain('glossary');
     expect(await (await get(`${base(unlinked)}/themes`)).text()).toContain('not tied together');
     expect(await (await get(`${base(unlinked)}/checks`)).text()).toContain('not tied together');
+  });
+
+  it('counts glossary rows as ties, and judges each theme on them on Checks', async () => {
+    expect(await (await get(`/studies/${glossed.sid}/ties-notice`)).text()).not.toContain('not tied together');
+    const page = await (await get(`${base(glossed)}/checks`)).text();
+    expect(page).not.toContain('not tied together');
+    expect(page).toContain('Per theme, from the glossary');
+    const section = page.slice(page.indexOf('id="glossary-alignment"'));
+    // 15 rows, each one en–es pair of terms the vocabulary knows.
+    const pairs = Number(section.match(/<tr><td>en – es<\/td><td class="num">(\d+)<\/td>/)![1]);
+    expect(pairs).toBeGreaterThan(5);
+    expect(pairs).toBeLessThanOrEqual(15);
+    expect(page).not.toContain('id="theme-alignment"'); // nothing held out
   });
 
   it('stays quiet for a study whose answers are linked across languages', async () => {
