@@ -1,12 +1,11 @@
-// import, languages, vocabulary (issue 2 item 6); remove-study and remove-import (OWASP ASVS 4.0.3 V8.3.2).
-import { writeFile } from 'node:fs/promises';
+// import, languages (language-commands.ts), vocabulary (issue 2 item 6); remove-study and remove-import (OWASP ASVS 4.0.3 V8.3.2).
 import type { Command } from 'commander';
 import { describeStudyContents, formatBytes, importFile, planImportRemoval, planStudyRemoval, removeImport, removeStudy, requireStudy, type ImportSummary, type RemovalOutcome } from '../services/index.js';
-import { csvBytes, toCsv } from '../services/csv.js';
 import { scannerFromSetting, scanUpload } from '../services/scan-upload.js';
-import { iterateDocuments, listImports, topWords, vacuumStore, vocabularySizes, type Store } from '../store/index.js';
+import { listImports, topWords, vacuumStore, vocabularySizes, type Store } from '../store/index.js';
 import { normalizeLanguageTag } from '../text/language-tags.js';
 import { InputError } from '../text/types.js';
+import { registerLanguageCommand } from './language-commands.js';
 import { formatCounts, mappingFromFlags, mappingOptions, parseNumber, readInputFile, type CliContext, type MappingFlags } from './context.js';
 
 export function describeImport(s: ImportSummary): string[] {
@@ -63,8 +62,9 @@ export function registerStudyCommands(program: Command, ctx: CliContext): void {
   )
     .option('--languages <list>', 'the study\'s languages, comma-separated (e.g. en,es,fr)')
     .option('--json', 'print the summary as one JSON line')
+    .option('--trust-declared', 'the declared language column always wins (default: it is a strong prior, and a text clearly written in another language gets that language)')
     .option('--scan-command <command>', 'virus scanner the file is piped to before it is read, e.g. "clamscan --no-summary -"; exit 0 clean, 1 infected (overrides THEMATA_SCAN_COMMAND)')
-    .action(async (file: string, flags: MappingFlags & { study: string; languages?: string; sheet?: string; json?: boolean; scanCommand?: string }) => {
+    .action(async (file: string, flags: MappingFlags & { study: string; languages?: string; sheet?: string; json?: boolean; trustDeclared?: boolean; scanCommand?: string }) => {
       if (flags.text.length === 0) throw new InputError('Say which column holds the answers: --text COL (repeat for several questions).', file);
       const input = await readInputFile(file);
       // Scanned before anything reads or stores the bytes (OWASP ASVS 4.0.3 V12.4.2).
@@ -79,6 +79,7 @@ export function registerStudyCommands(program: Command, ctx: CliContext): void {
         mapping: mappingFromFlags(flags),
         ...(flags.languages ? { languages: flags.languages.split(',') } : {}),
         ...(flags.sheet ? { sheet: flags.sheet } : {}),
+        ...(flags.trustDeclared ? { trustDeclared: true } : {}),
         onProgress: (p) => {
           if (p.phase !== phase) {
             if (phase) bar.stop();
@@ -92,23 +93,7 @@ export function registerStudyCommands(program: Command, ctx: CliContext): void {
       else for (const line of describeImport(summary)) ctx.out(line);
     });
 
-  program
-    .command('languages')
-    .description('list every answer\'s language decision as CSV: id,question,language,source,confidence')
-    .requiredOption('--study <name>', 'study name')
-    .option('--out <file>', 'write the CSV to this file (UTF-8 with BOM) instead of standard output')
-    .option('--disagreements', 'only answers whose declared language differs from the language written')
-    .action(async (flags: { study: string; out?: string; disagreements?: boolean }) => {
-      const store = ctx.openStore();
-      const study = requireStudy(store, flags.study);
-      const header = ['id', 'question', 'language', 'source', 'confidence'];
-      const docs = iterateDocuments(store, study.id, flags.disagreements ? { disagreements: true } : {});
-      const rows = [...docs].map((d) => [d.rowId, d.question, d.language ?? 'undetermined', d.languageSource, Math.round(d.confidence * 1000) / 1000]);
-      if (flags.out) {
-        await writeFile(flags.out, csvBytes(header, rows));
-        ctx.err(`Wrote ${rows.length} rows to ${flags.out}.`);
-      } else ctx.io.stdout.write(toCsv(header, rows).replace(/\r\n/g, '\n'));
-    });
+  registerLanguageCommand(program, ctx);
 
   program
     .command('vocabulary')

@@ -45,9 +45,10 @@ describe('themata command line, end to end', () => {
     expect(r.code).toBe(0);
     const { bom, lines } = csvText(out);
     expect(bom).toBe(true);
-    expect(lines[0]).toBe('id,question,language,source,confidence');
+    expect(lines[0]).toBe('id,question,language,source,confidence,declared,written,declared check,mixed with,mixed share');
     expect(lines).toHaveLength(91);
-    expect(lines).toContain("'-3,answer,es,declared,1"); // formula guard on the id "-3"
+    // Formula guard on the id "-3"; its text confirms its declared language (issue 12).
+    expect(lines.find((l) => l.startsWith("'-3,"))).toMatch(/^'-3,answer,es,declared,[0-9.]+,es,es,confirmed,,$/);
     const v = await cli(['--data', data, 'vocabulary', '--study', 'Test survey', '--lang', 'en', '--top', '5']);
     expect(v.code).toBe(0);
     expect(v.stdout.split('\n')[1]).toBe('rank\tword\tstem\tcount\tanswers');
