@@ -1,9 +1,12 @@
 // Importing a file that mixes encodings and holds empty answers (issue 12): the Japanese answer
 // arrives intact with a warning naming its row, and empty answers are left out with a reason.
+import { parse } from 'csv-parse/sync';
 import iconv from 'iconv-lite';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { describeImport } from '../../src/cli/study-commands.js';
-import { importFile } from '../../src/services/index.js';
+import { exportRun } from '../../src/services/export-run.js';
+import { createFitRun, importFile, runFitJob } from '../../src/services/index.js';
+import { loadRunModel } from '../../src/services/run-model.js';
 import { rebuildVocabulary } from '../../src/services/vocabulary.js';
 import * as S from '../../src/store/index.js';
 import { withTempStore } from '../store/helpers.js';
@@ -74,5 +77,23 @@ describe('importing a file with mixed encodings and empty answers', () => {
     expect(lines.some((l) => /^Read as CSV, encoding assumed windows-1252, UTF-8 in some lines \(confidence \d+%\)/.test(l))).toBe(true);
     expect(lines).toContain(`Warning: ${s.encodingNotes[0].message}`);
     expect(lines.find((l) => l.startsWith('Excluded:'))).toMatch(/empty 3/);
+  });
+
+  it('fits and exports without the empty answers as answers: the export lists them as left out', async () => {
+    const s = await importFile(ctx.store, { study: 'Mixed', bytes: surveyBytes(), fileName: 'umfrage.csv', mapping: MAPPING, languages: ['fr', 'de', 'es', 'ja'] });
+    const run = createFitRun(ctx.store, s.studyId, { themes: 2, sweeps: 6, burnIn: 2, seed: 1 });
+    await runFitJob({ store: ctx.store, runId: run.id });
+    const model = loadRunModel(ctx.store, run.id)!;
+    const file = exportRun(ctx.store, model, { draws: 5 }).find((f) => f.name === 'answers-by-theme.csv')!;
+    const [header, ...rows] = parse(new TextDecoder().decode(file.bytes).replace(/^\ufeff/, '')) as string[][];
+    const at = (row: number | string) => rows.find((r) => r[0] === String(row))!;
+    const reason = header.indexOf('left out because');
+    const share = header.indexOf('Theme 1');
+    for (const row of EMPTY_ROWS) {
+      expect(at(row)[reason]).toBe('empty');
+      expect(at(row)[share]).toBe('');
+    }
+    expect(at(JA_ROW)[reason]).toBe('');
+    expect(at(JA_ROW)[share]).toMatch(/^0?\.\d+|^[01]$/); // the Japanese answer has theme shares
   });
 });

@@ -99,10 +99,21 @@ export function bytesOfLines(buf: Uint8Array, scan: LineScan, kind: LineKind): U
 export function decodeByLine(buf: Uint8Array, scan: LineScan, legacy: (bytes: Uint8Array) => string): string {
   const utf8 = new TextDecoder('utf-8', { ignoreBOM: true });
   const parts: string[] = [];
+  // Consecutive lines read the same way are decoded in one call; ASCII lines read the same in
+  // both, so they join whichever run they are in.
+  let start = 0;
+  let asLegacy = false;
+  const flush = (end: number) => {
+    if (end > start) parts.push(asLegacy ? legacy(buf.subarray(start, end)) : utf8.decode(buf.subarray(start, end)));
+    start = end;
+  };
   for (let i = 0; i < scan.lines.length; i++) {
-    const bytes = buf.subarray(scan.lines[i].start, scan.lines[i].end);
-    parts.push(scan.kinds[i] === 'legacy' ? legacy(bytes) : utf8.decode(bytes));
+    const kind = scan.kinds[i];
+    if (kind === 'ascii' || (kind === 'legacy') === asLegacy) continue;
+    flush(scan.lines[i].start);
+    asLegacy = kind === 'legacy';
   }
+  flush(buf.length);
   return parts.join('');
 }
 
