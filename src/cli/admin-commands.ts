@@ -2,7 +2,7 @@
 import { readFileSync } from 'node:fs';
 import type { Command } from 'commander';
 import { ensureDemoStudy } from '../services/index.js';
-import { describeScanning, scannerFromSetting } from '../services/scan-upload.js';
+import { describeScanning, scannerFromSetting } from '../platform/index.js';
 import { createAccount, getAccountByName, giveOwnerlessStudiesToFirstAccount, passwordProblem, setPassword } from '../store/index.js';
 import { InputError } from '../text/types.js';
 import { describeImport } from './study-commands.js';

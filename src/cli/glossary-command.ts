@@ -2,7 +2,7 @@
 // language of the study) as link groups of tiny documents (DESIGN §3), or list a study's glossaries.
 import type { Command } from 'commander';
 import { importGlossary, listGlossaries, requireStudy, type GlossarySummary } from '../services/index.js';
-import { scannerFromSetting, scanUpload } from '../services/scan-upload.js';
+import { scannerFromSetting, scanUpload } from '../platform/index.js';
 import { readInputFile, type CliContext } from './context.js';
 
 function languageCounts(columns: readonly { language: string }[], counts: Record<string, number>): string {

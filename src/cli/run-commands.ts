@@ -29,7 +29,7 @@ import { csvBytes, round6, toCsv } from '../services/csv.js';
 import { runFitInProcess } from '../jobs/index.js';
 import { getRun, getRunByName, getStudy, interruptIfAbandoned, type Run, type RunProgress, type Store } from '../store/index.js';
 import { InputError } from '../text/types.js';
-import { scannerFromSetting, scanUpload } from '../services/scan-upload.js';
+import { scannerFromSetting, scanUpload } from '../platform/index.js';
 import { exportFiles, exportTables } from '../services/export-run.js';
 import { exportWorkbook } from '../services/export-workbook.js';
 import { describeCovariateNote } from '../services/apply-covariates.js';

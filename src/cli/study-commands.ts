@@ -1,7 +1,7 @@
 // import, languages (language-commands.ts), vocabulary (issue 2 item 6); remove-study and remove-import (OWASP ASVS 4.0.3 V8.3.2).
 import type { Command } from 'commander';
 import { describeStudyContents, formatBytes, importFile, planImportRemoval, planStudyRemoval, removeImport, removeStudy, requireStudy, type ImportSummary, type RemovalOutcome } from '../services/index.js';
-import { scannerFromSetting, scanUpload } from '../services/scan-upload.js';
+import { scannerFromSetting, scanUpload } from '../platform/index.js';
 import { listImports, topWords, vacuumStore, vocabularySizes, type Store } from '../store/index.js';
 import { normalizeLanguageTag } from '../text/language-tags.js';
 import { InputError } from '../text/types.js';

@@ -4,7 +4,7 @@
 // user's file name is never a path or an argument. Exit code 0 is clean, 1 is infected (ClamAV's
 // convention); anything else, a start failure or a timeout refuses the upload (fail closed).
 import { spawn } from 'node:child_process';
-import { InputError } from '../text/types.js';
+import { InputError } from '../text/index.js';
 
 export interface UploadScanner {
   /** Program and arguments, e.g. ['clamdscan', '--no-summary', '--fdpass', '-']. */

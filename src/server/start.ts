@@ -8,7 +8,7 @@ import { isIP } from 'node:net';
 import { serve } from '@hono/node-server';
 import { JobQueue } from '../jobs/index.js';
 import { createFitRun, ensureDemoStudy } from '../services/index.js';
-import { scannerFromSetting, type UploadScanner } from '../services/scan-upload.js';
+import { scannerFromSetting, type UploadScanner } from '../platform/index.js';
 
 /** The run queued when the demo study is first imported. */
 export const DEMO_RUN = { name: 'Eight themes (demo)', themes: 8, sweeps: 400, seed: 20251, holdout: 0.1, covariates: ['branch_region', 'channel', 'age_band', 'wave'] } as const;

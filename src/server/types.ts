@@ -1,6 +1,6 @@
 // What every route can reach: the store, the job queue, and who is asking.
 import type { JobQueue } from '../jobs/index.js';
-import type { UploadScanner } from '../services/scan-upload.js';
+import type { UploadScanner } from '../platform/index.js';
 import type { ScryptCost, Store } from '../store/index.js';
 import type { RequestRateLimiter, SignInThrottle } from './throttle.js';
 

@@ -2,7 +2,7 @@
 import { documentTokensByIds, getStudy, getStudyWordLists, iterateDocuments, listImports, loadVocabulary, type Store } from '../store/index.js';
 import { answersTable, blankReasonFor, type AnswerRow } from './answers-table.js';
 import { BUNDLE_EXTENSION, BUNDLE_VERSION, encodeBundle, type RunBundle } from './bundle.js';
-import { installationKey } from './bundle-key.js';
+import { installationKey } from '../platform/index.js';
 import { SHARES_HEADER, contrastCovariates, runContrasts } from './contrasts.js';
 import { csvBytes, round6, type CsvCell } from './csv.js';
 import { alphaForCovariates, foldInDocuments } from './fold-in.js';

@@ -28,7 +28,7 @@ export { runContrasts, contrastCovariates, SHARES_HEADER, type ContrastRequest }
 export { exportRun, buildBundle, studyAnswerRows, studyCovariates, studyIdColumn, type ExportedFile, type ExportOptions } from './export-run.js';
 export { applyRun, type ApplyOptions, type ApplySummary } from './apply-run.js';
 export { encodeBundle, decodeBundle, openBundle, UntrustedBundleError, BUNDLE_EXTENSION, type RunBundle, type BundleOrigin } from './bundle.js';
-export { installationKey, BUNDLE_KEY_FILE } from './bundle-key.js';
+export { installationKey, BUNDLE_KEY_FILE } from '../platform/index.js';
 export { answersTable, shareColumns, type AnswerRow } from './answers-table.js';
 export { toCsv, csvBytes, guardCell } from './csv.js';
 export { foldInDocuments, type FoldInDocument, type FoldInResult } from './fold-in.js';

@@ -5,7 +5,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { JobQueue } from '../../src/jobs/index.js';
 import { createApp, type RequestRateLimiter, type SignInThrottle } from '../../src/server/index.js';
-import type { UploadScanner } from '../../src/services/scan-upload.js';
+import type { UploadScanner } from '../../src/platform/index.js';
 import { openStore, type ScryptCost, type Store } from '../../src/store/index.js';
 
 export const LOCAL_CSRF = 'local-token-for-tests-0123456789';

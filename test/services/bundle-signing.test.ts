@@ -6,7 +6,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { gunzipSync, gzipSync } from 'node:zlib';
 import { afterAll, describe, expect, it } from 'vitest';
-import { BUNDLE_KEY_FILE, installationKey } from '../../src/services/bundle-key.js';
+import { BUNDLE_KEY_FILE, installationKey } from '../../src/platform/index.js';
 import { encodeBundle, openBundle, UntrustedBundleError, type RunBundle } from '../../src/services/bundle.js';
 import { InputError } from '../../src/text/types.js';
 

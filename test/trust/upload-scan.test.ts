@@ -8,7 +8,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startServer } from '../../src/server/index.js';
-import { parseScanCommand, scannerFromSetting, scanUpload, type UploadScanner } from '../../src/services/scan-upload.js';
+import { parseScanCommand, scannerFromSetting, scanUpload, type UploadScanner } from '../../src/platform/index.js';
 import { createStudy, listStudies, openStore, type Store } from '../../src/store/index.js';
 import { InputError } from '../../src/text/types.js';
 import { cli } from '../cli/cli-harness.js';

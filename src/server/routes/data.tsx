@@ -3,7 +3,7 @@ import { Hono, type Context } from 'hono';
 import { HTTPException } from 'hono/http-exception';
 import { DataPage, MappingPage } from '../../../views/pages/data.js';
 import { importFile } from '../../services/import-file.js';
-import { describeScanning, scanUpload } from '../../services/scan-upload.js';
+import { describeScanning, scanUpload } from '../../platform/index.js';
 import { readInputTable } from '../../services/text-pipeline.js';
 import { addStudyMember, getAccountByName, listImports, listStudyMembers, studyRole, type Study } from '../../store/index.js';
 import { InputError, type Table } from '../../text/types.js';

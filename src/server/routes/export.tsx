@@ -10,7 +10,7 @@ import { bundleFileName, exportFiles, exportTables } from '../../services/export
 import { exportWorkbook } from '../../services/export-workbook.js';
 import { getRunExportBytes, inTransaction, listImports, listRunExports, saveRunExport, studyRole, type Study } from '../../store/index.js';
 import { InputError } from '../../text/types.js';
-import { scanUpload } from '../../services/scan-upload.js';
+import { scanUpload } from '../../platform/index.js';
 import { finishedRunFor, frame, studyFor } from '../access.js';
 import { renderPage } from '../render.js';
 import { reportHtml } from '../results/report.js';

@@ -4,7 +4,7 @@
 import { Hono, type Context } from 'hono';
 import type { GlossarySectionProps } from '../../../views/glossary.js';
 import { importGlossary, listGlossaries } from '../../services/glossary.js';
-import { scanUpload } from '../../services/scan-upload.js';
+import { scanUpload } from '../../platform/index.js';
 import type { Study } from '../../store/index.js';
 import { InputError } from '../../text/types.js';
 import { studyFor } from '../access.js';
