@@ -15,6 +15,10 @@ export function describeImport(s: ImportSummary): string[] {
     ...(s.encodingNotes ?? []).map((n) => `Warning: ${n.message}`),
     `Answers per language: ${formatCounts(s.documentsPerLanguage)}.`,
     `Undetermined language: ${s.undetermined}.`,
+    ...(Object.keys(s.declaredChecks ?? {}).length > 0
+      ? [`Declared language: ${formatCounts(s.declaredChecks)} (overruled = the text is clearly in another language, which was taken; see \`themata languages --disagreements\`).`]
+      : []),
+    ...(s.mixedAnswers ? [`Answers written in two languages (decided by the language of most of their words): ${s.mixedAnswers}.`] : []),
     `Excluded: ${formatCounts(s.excluded)}.`,
     `Language decided by: ${formatCounts(s.languageSources)}.`,
     `Vocabulary of the study: ${Object.entries(s.vocabularySizes).map(([l, n]) => `${l} ${n} words`).join(', ') || 'empty'}.`,

@@ -52,6 +52,10 @@ export interface ImportSummary {
   readonly documentsPerLanguage: Record<string, number>;
   /** How languages were decided in this import: declared, detected, adapted, undetermined. */
   readonly languageSources: Record<string, number>;
+  /** What the texts said about their declared language: confirmed, kept (too little text), overruled. */
+  readonly declaredChecks: Record<string, number>;
+  /** Answers written in two languages (they go by the language of most of their words). */
+  readonly mixedAnswers: number;
   readonly undetermined: number;
   /** Excluded documents of this import per reason. */
   readonly excluded: Record<string, number>;
@@ -124,11 +128,15 @@ export async function importFile(store: Store, options: ImportOptions): Promise<
     const excluded = exclusionSummary(store, study.id, importId);
     const perLanguage: Record<string, number> = {};
     const sources: Record<string, number> = {};
+    const checks: Record<string, number> = {};
+    let mixedAnswers = 0;
     let undetermined = 0;
     decisions.forEach((d) => {
       if (d.language === null) undetermined++;
       else perLanguage[d.language] = (perLanguage[d.language] ?? 0) + 1;
       sources[d.source] = (sources[d.source] ?? 0) + 1;
+      if (d.declaredCheck !== undefined) checks[d.declaredCheck] = (checks[d.declaredCheck] ?? 0) + 1;
+      if (d.mixed !== undefined) mixedAnswers++;
     });
     const summary: ImportSummary = {
       studyId: study.id,
@@ -147,6 +155,8 @@ export async function importFile(store: Store, options: ImportOptions): Promise<
       emptyAnswers: stored.length - docs.length,
       documentsPerLanguage: perLanguage,
       languageSources: sources,
+      declaredChecks: checks,
+      mixedAnswers,
       undetermined,
       excluded,
       vocabularySizes: vocab.vocabularySizes,

@@ -41,6 +41,8 @@ describe('importFile', () => {
     const s = await importFile(ctx.store, { study: 'Survey', bytes: enc(surveyCsv(rows)), fileName: 'survey.csv', mapping: FIXTURE_MAPPING, languages: ['en', 'es'] });
     const found = S.listDocuments(ctx.store, s.studyId, { disagreements: true }).rows;
     expect(found.map((d) => [d.rowId, d.language, d.declaredLanguage, d.writtenLanguage, d.declaredCheck])).toEqual([[rows[i].id, 'es', 'en', 'es', 'overruled']]);
+    expect(s.declaredChecks.overruled).toBe(1);
+    expect((s.declaredChecks.confirmed ?? 0) + (s.declaredChecks.kept ?? 0)).toBe(s.documents - 1);
     // Every other answer's declaration is confirmed by its text (or kept where the text is too short to say).
     const others = S.listDocuments(ctx.store, s.studyId, {}, { limit: 1000 }).rows.filter((d) => d.rowId !== rows[i].id && d.declaredLanguage !== null);
     expect(others.every((d) => d.language === d.declaredLanguage && d.declaredCheck !== 'overruled')).toBe(true);
