@@ -72,6 +72,7 @@ export async function importGlossary(store: Store, options: GlossaryOptions): Pr
   const table = await readInputTable(options.bytes, options.fileName, options.sheet);
   const found = languageSummary(store, study.id).map((r) => r.language).filter((l): l is string => l !== null);
   const languages = [...new Set([...study.languages, ...found])];
+  if (languages.length === 0) throw new InputError(`Study "${study.name}" has no languages yet: import its answers first, then the glossary.`, options.fileName);
   const glossary = readGlossaryTable(table, languages);
 
   const termsPerLanguage: Record<string, number> = {};

@@ -160,6 +160,9 @@ describe('importGlossary', () => {
     expect(twice.message).toContain('both name the language en');
     const missing = await rejection(importGlossary(ctx.store, { study: 'Nope', bytes: enc('en,es\na,b\n'), fileName: 'g.csv' }));
     expect(missing.message).toContain('no study called "Nope"');
+    S.createStudy(ctx.store, { name: 'Empty', languages: [] });
+    const bare = await rejection(importGlossary(ctx.store, { study: 'Empty', bytes: enc('en,es\na,b\n'), fileName: 'g.csv' }));
+    expect(bare.message).toContain('has no languages yet: import its answers first');
     expect(S.listImports(ctx.store, 1)).toHaveLength(1);
   });
 
