@@ -213,6 +213,11 @@ describe('languages not tied together', () => {
     expect(page).not.toContain('id="theme-alignment"'); // nothing held out
   });
 
+  it('lists only answers on the Answers page, not the glossary terms the fit also read', async () => {
+    const page = await (await get(`${base(glossed)}/answers`)).text();
+    expect(page).toMatch(/1–30 of 80\b/);
+  });
+
   it('stays quiet for a study whose answers are linked across languages', async () => {
     expect(await (await get(`/studies/${linked.sid}/ties-notice`)).text()).not.toContain('not tied together');
     expect(await (await get(`${base(linked)}/themes`)).text()).not.toContain('not tied together');

@@ -182,7 +182,7 @@ export function ContrastsPage(props: ContrastsPageProps) {
           />
           <p class="hint">
             Many themes are compared at once, so some differences look clear by chance. The adjusted p-values control the false discovery rate (Benjamini &amp; Hochberg,
-            1995) over all pairs of groups of {props.by}. Intervals come from {count(props.draws)} draws.
+            1995) over all pairs of groups of {props.by}. Intervals come from {count(props.draws)} draws, each combining a sample of the answers' theme mixes with a resampling of the answers.
           </p>
         </>
       )}

@@ -49,7 +49,7 @@ export function reportProps(store: Store, study: Study, data: RunData, createdAt
     run: model.run.name,
     createdAt,
     settings: `${s.themes} themes, ${s.sweeps} sweeps, seed ${s.seed}${s.covariates.length ? `, prior depending on ${s.covariates.join(', ')}` : ''}.`,
-    answers: model.diagnostics.documents,
+    answers: data.isAnswer.reduce((n, x) => n + x, 0),
     languages,
     themes: names.map((n, k) => {
       const c = coherence.get(k);
