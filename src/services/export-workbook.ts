@@ -4,7 +4,8 @@
 // and one row, not a cell object per value. The cells follow the CSV files' rules (csv.ts):
 // text that starts with =, +, -, @, tab or CR is prefixed with a quote so no spreadsheet program
 // can evaluate it (OWASP, "CSV Injection", common practice), numbers stay numbers.
-import { PassThrough } from 'node:stream';
+import { once } from 'node:events';
+import { PassThrough, type Writable } from 'node:stream';
 import type ExcelJSModule from 'exceljs';
 import { guardCell, type CsvCell } from './csv.js';
 import type { ExportedFile, ExportTables } from './export-run.js';
@@ -14,6 +15,29 @@ export const WORKBOOK_MEDIA_TYPE = 'application/vnd.openxmlformats-officedocumen
 
 /** Rows of one worksheet, header included (ECMA-376 / Excel's limit of 1,048,576 rows). */
 export const SHEET_ROWS = 1_048_576;
+
+/** Rows written between checks that the zip has taken the rows before them (common practice). */
+const YIELD_ROWS = 500;
+
+/**
+ * Wait until the zip has taken the sheet's committed rows. In exceljs 4.4.0 a streaming sheet
+ * writes into a buffer that pipes into the zip's entry stream (a readable-stream PassThrough of
+ * archiver) without waiting for it (lib/utils/stream-buf.js, `_pipe`), so a fast loop would
+ * hold the whole sheet's XML in memory; waiting for that entry stream's 'drain' keeps memory to
+ * a few buffers. When the internals are not as expected, a turn of the event loop is all that is
+ * given; the wait for 'drain' is capped so an unexpected stream can slow a workbook, never stop it.
+ */
+async function drained(ws: unknown): Promise<void> {
+  const sink = (ws as { stream?: { pipes?: (Writable & { _writableState?: { needDrain?: boolean } })[] } }).stream?.pipes?.[0];
+  if (sink?._writableState?.needDrain) {
+    let timer: NodeJS.Timeout | undefined;
+    await Promise.race([once(sink, 'drain'), new Promise<void>((resolve) => (timer = setTimeout(resolve, DRAIN_WAIT_MS)))]);
+    clearTimeout(timer);
+  } else await new Promise<void>((resolve) => setImmediate(resolve));
+}
+
+/** Longest wait for the zip to take rows (common practice). */
+const DRAIN_WAIT_MS = 1_000;
 
 export interface WorkbookTable {
   /** Sheet name: at most 31 characters, none of : \ / ? * [ ] (Excel's rules). */
@@ -73,6 +97,7 @@ export async function tablesWorkbook(tables: readonly WorkbookTable[], sheetRows
       }
       ws.addRow(row.map(workbookCell)).commit();
       rowsInSheet++;
+      if (rowsInSheet % YIELD_ROWS === 0) await drained(ws);
     }
     ws.commit();
   }
