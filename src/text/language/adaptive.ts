@@ -152,6 +152,16 @@ export class AdaptiveLanguageModel {
     }
   }
 
+  /** The study's language mix as a prior over the candidates (add-one smoothed), aligned with them. */
+  mixPrior(candidates: readonly string[]): number[] {
+    const counts = candidates.map((c) => {
+      const slot = this.slots.get(c);
+      return slot === undefined ? 0 : (this.mix !== undefined ? this.mix[slot] : this.documents[slot]) + 1;
+    });
+    const total = counts.reduce((s, x) => s + x, 0);
+    return counts.map((x) => x / total);
+  }
+
   /**
    * Posterior over the candidate languages for a document (word ids from `encode`), best first,
    * or undefined when it has no words. With `own`, the document is assumed learned under that

@@ -31,16 +31,18 @@ export interface TextCase {
   readonly doc: Int32Array;
   readonly pass: FirstPass;
   readonly label: string | undefined;
+  /** The text's evidence alone (posterior under a uniform prior), when already computed. */
+  readonly evidence?: Ranked;
 }
 
 const UNDETERMINED: LanguageDecision = { language: null, source: 'undetermined', confidence: 0 };
 
 /** The language of a text by the text alone (with the study's language mix as prior). */
-export function decideByText(study: readonly string[], c: TextCase, model: AdaptiveLanguageModel, judged?: Ranked): LanguageDecision {
+export function decideByText(study: readonly string[], c: TextCase, model: AdaptiveLanguageModel): LanguageDecision {
   const { pass } = c;
   if (pass.candidates.length === 0) return UNDETERMINED;
   if (pass.candidates.length === 1) return { language: pass.candidates[0], source: 'detected', confidence: pass.confidence };
-  const ranked = judged ?? judge(c, model);
+  const ranked = judge(c, model);
   if (ranked === undefined) {
     // No study model to ask: the trigram step (skipped for short texts) decides alone.
     const first = pass.deferred === true ? firstPass(c.text, study) : pass;
@@ -99,12 +101,30 @@ export function decideWithDeclared(
 }
 
 /**
- * The study model's posterior for a document, leaving the document's own contribution out;
- * undefined while the model has learned too little about at least two of the candidates.
+ * The study model's posterior for a document under `prior` (default: the study's language
+ * mix), leaving the document's own contribution out; undefined while the model has learned too
+ * little about at least two of the candidates.
  */
 export function judge(c: TextCase, model: AdaptiveLanguageModel, prior?: readonly number[]): Ranked | undefined {
+  const evidence = c.evidence ?? textEvidence(c, model);
+  if (evidence === undefined) return undefined;
+  return reweight(evidence, c.pass.candidates, prior ?? model.mixPrior(c.pass.candidates));
+}
+
+/** The posterior under a uniform prior: the text's evidence alone, reweighted by any prior later. */
+export function textEvidence(c: TextCase, model: AdaptiveLanguageModel): Ranked | undefined {
   let trained = 0;
   for (const l of c.pass.candidates) if (model.wordsLearned(l) - (l === c.label ? c.doc.length : 0) >= MIN_LEARNED_WORDS) trained++;
   if (trained < 2) return undefined;
-  return model.posterior(c.doc, c.pass.candidates, c.label, prior);
+  const n = c.pass.candidates.length;
+  return model.posterior(c.doc, c.pass.candidates, c.label, c.pass.candidates.map(() => 1 / n));
+}
+
+/** Bayes' rule again: p(ℓ | text) under `prior` ∝ p(ℓ | text, uniform prior) · prior(ℓ). */
+function reweight(evidence: Ranked, candidates: readonly string[], prior: readonly number[]): Ranked {
+  const weight = new Map(candidates.map((l, j) => [l, prior[j]]));
+  const scores = evidence.map((e) => e.probability * (weight.get(e.language) ?? 0));
+  const sum = scores.reduce((s, x) => s + x, 0);
+  if (!(sum > 0)) return evidence;
+  return evidence.map((e, j) => ({ language: e.language, probability: scores[j] / sum })).sort((a, b) => b.probability - a.probability);
 }

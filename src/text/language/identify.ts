@@ -8,7 +8,7 @@
 import type { LanguageDecision } from '../types.js';
 import { openStopWords } from '../tokens/stop-word-lists.js';
 import { AdaptiveLanguageModel } from './adaptive.js';
-import { decideByText, decideWithDeclared, judge, MIN_LEARNED_WORDS, type Ranked, type TextCase } from './decide.js';
+import { decideByText, decideWithDeclared, judge, MIN_LEARNED_WORDS, textEvidence, type Ranked, type TextCase } from './decide.js';
 import { declaredPrior } from './declared-prior.js';
 import { firstPass, round } from './first-pass.js';
 import { languageKey } from './languages.js';
@@ -105,13 +105,13 @@ export function identifyLanguages(texts: string[], options: IdentifyOptions): La
     }
   }
   model.setLanguageMix(mix);
-  const caseOf = (i: number): TextCase => ({ text: texts[i], doc: encoded[i], pass: first[i], label: learned[i] });
+  const caseOf = (i: number, evidence?: Ranked): TextCase => ({ text: texts[i], doc: encoded[i], pass: first[i], label: learned[i], evidence });
 
   // Self-training with hard labels (Nigam, McCallum, Thrun & Mitchell 2000, "Text classification
   // from labeled and unlabeled documents using EM", Machine Learning 39): judge every learnable
   // document by all the others (leave-one-out) and (re)label it where the study model is sure.
   // Trigram profiles err between close languages (Spanish/Portuguese); the study's words less so.
-  // A declared answer is judged with its declaration as prior. The last round's judgement of
+  // A declared answer is judged with its declaration as prior. The last round's evidence of
   // each document, reused for its final decision once the rounds have converged (the model
   // has then moved by under a thousandth of its documents).
   let lastJudged: (Ranked | undefined)[] | undefined;
@@ -120,10 +120,9 @@ export function identifyLanguages(texts: string[], options: IdentifyOptions): La
     const judged: (Ranked | undefined)[] = new Array(texts.length).fill(undefined);
     for (let i = 0; i < texts.length; i++) {
       if (fixed[i] || !learnable(i) || first[i].candidates.length < 2) continue;
-      const prior = priorOf(i);
-      const ranked = judge(caseOf(i), model, prior);
-      if (prior === undefined) judged[i] = ranked;
-      const best = ranked?.[0];
+      const evidence = textEvidence(caseOf(i), model);
+      judged[i] = evidence;
+      const best = evidence === undefined ? undefined : judge(caseOf(i, evidence), model, priorOf(i))?.[0];
       if (best !== undefined && best.language !== learned[i] && best.probability >= RELABEL_POSTERIOR) {
         changes.push([i, learned[i], best.language]);
       }
@@ -145,8 +144,8 @@ export function identifyLanguages(texts: string[], options: IdentifyOptions): La
   return texts.map((text, i): LanguageDecision => {
     const d = declared[i];
     if (d !== undefined && trustDeclared) return { language: d, source: 'declared', confidence: 1 };
-    const c = caseOf(i);
-    const byText = decideByText(study, c, model, lastJudged?.[i]);
+    const c = caseOf(i, lastJudged?.[i]);
+    const byText = decideByText(study, c, model);
     let decided: LanguageDecision;
     if (mass !== undefined && d !== undefined) decided = decideWithDeclared(study, c, model, d, mass, byText);
     // Text with no evidence keeps its declared language, even when asked to review.

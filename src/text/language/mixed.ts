@@ -75,7 +75,8 @@ function sentenceLanguage(
   label: string | undefined,
   trained: (candidates: readonly string[]) => boolean,
 ): string | undefined {
-  const pass = firstPass(sentence, study, 'short');
+  // Script only first (no trigram step): the study model usually decides the sentence.
+  const pass = firstPass(sentence, study, 'always');
   if (pass.candidates.length === 0) return undefined;
   if (pass.candidates.length === 1) return pass.candidates[0];
   if (trained(pass.candidates)) {
