@@ -45,16 +45,17 @@ export function withEncodingNotes(table: Table, decoded?: DecodedText): Table {
 /**
  * Re-decode cells (and column names) that are UTF-8 read as windows-1252 (mojibake.ts). One
  * misread character alone can be a coincidence of real text ("é€€" is also 退 misread), so a cell
- * is repaired when it holds two or more, or the file holds at least three in repairable cells;
- * otherwise, and for cells that do not re-decode cleanly, the rows are reported (common practice).
+ * counts only with a pattern real text never spells ("Ã©", "â€™", "ã‚"), or two misread
+ * characters, or when the file holds at least three in repairable cells (common practice).
+ * Such a cell is repaired when it re-decodes cleanly, else its row is reported.
  */
 function repairMojibake(table: Table, encoding: string): EncodingNote[] {
-  const found: { cells: string[]; c: number; row: number; sequences: number; fixed: string | null }[] = [];
+  const found: { cells: string[]; c: number; row: number; sequences: number; strong: number; fixed: string | null }[] = [];
   const visit = (cells: string[], row: number) => {
     for (let c = 0; c < cells.length; c++) {
       if (!mayHoldMojibake(cells[c])) continue;
-      const { sequences, fixed } = fixMojibake(cells[c]);
-      if (sequences > 0) found.push({ cells, c, row, sequences, fixed });
+      const { sequences, strong, fixed } = fixMojibake(cells[c]);
+      if (sequences > 0) found.push({ cells, c, row, sequences, strong, fixed });
     }
   };
   visit(table.columns, 0);
@@ -66,10 +67,10 @@ function repairMojibake(table: Table, encoding: string): EncodingNote[] {
   let fixedCells = 0;
   let leftCells = 0;
   const example = { before: '', after: '' };
-  for (const { cells, c, row, sequences, fixed } of found) {
+  for (const { cells, c, row, sequences, strong, fixed } of found) {
+    if (strong === 0 && sequences < 2 && (fixed === null || repairable < 3)) continue;
     // A repaired column name must not collide with another one.
-    const ok = fixed !== null && (sequences >= 2 || repairable >= 3) && !(row === 0 && cells.includes(fixed));
-    if (!ok) {
+    if (fixed === null || (row === 0 && cells.includes(fixed))) {
       leftCells++;
       leftRows.add(row);
       continue;

@@ -30,6 +30,12 @@ export interface MojibakeCheck {
   /** Multi-byte UTF-8 sequences found spelled as windows-1252 characters. */
   readonly sequences: number;
   /**
+   * Of those, the ones real text practically never spells: "Â" or "Ã" plus a symbol or letter
+   * (Latin-1 letters misread, "Ã©" for "é"), "â€"/"â‚" plus one (punctuation, "â€™" for "’"),
+   * and "ã€"/"ã‚"/"ãƒ"/"ã\u0081" plus one (kana and CJK punctuation). Common practice.
+   */
+  readonly strong: number;
+  /**
    * The text re-decoded as UTF-8 when that clearly fixes it: every character above ASCII belongs
    * to such a sequence, and each one decodes to a character of a script answers are written in.
    * Otherwise null. (Whether one sequence is evidence enough is the caller's call.)
@@ -37,7 +43,7 @@ export interface MojibakeCheck {
   readonly fixed: string | null;
 }
 
-const NONE: MojibakeCheck = { sequences: 0, fixed: null };
+const NONE: MojibakeCheck = { sequences: 0, strong: 0, fixed: null };
 
 /** Quick test: can `text` hold mojibake at all? (Most cells of a clean file fail it at once.) */
 export function mayHoldMojibake(text: string): boolean {
@@ -48,6 +54,7 @@ export function mayHoldMojibake(text: string): boolean {
 export function checkMojibake(text: string): MojibakeCheck {
   if (!mayHoldMojibake(text)) return NONE;
   let sequences = 0;
+  let strong = 0;
   let clean = true;
   let out = '';
   let last = 0;
@@ -81,6 +88,7 @@ export function checkMojibake(text: string): MojibakeCheck {
     }
     const decoded = decodeSequences(bytes);
     sequences += decoded.sequences;
+    strong += decoded.strong;
     if (decoded.text === null) {
       clean = false;
       continue;
@@ -89,7 +97,7 @@ export function checkMojibake(text: string): MojibakeCheck {
     last = offset;
   }
   if (sequences === 0) return NONE;
-  return { sequences, fixed: clean ? out + text.slice(last) : null };
+  return { sequences, strong, fixed: clean ? out + text.slice(last) : null };
 }
 
 /** Repeat the check: text converted twice or more needs more than one re-decoding. */
@@ -102,15 +110,16 @@ export function fixMojibake(text: string): MojibakeCheck {
     if (next.fixed === null) break;
     current = next.fixed;
   }
-  return { sequences: first.sequences, fixed: current };
+  return { ...first, fixed: current };
 }
 
 /**
  * Bytes of one run → its plausible multi-byte UTF-8 sequences (RFC 3629, section 4 table), and
  * the decoded run when every byte belongs to one (null otherwise).
  */
-function decodeSequences(bytes: number[]): { sequences: number; text: string | null } {
+function decodeSequences(bytes: number[]): { sequences: number; strong: number; text: string | null } {
   let n = 0;
+  let strong = 0;
   let whole = true;
   let text = '';
   for (let i = 0; i < bytes.length; ) {
@@ -121,6 +130,7 @@ function decodeSequences(bytes: number[]): { sequences: number; text: string | n
     const ch = ok ? decodeStrict(bytes.slice(i, i + len)) : null;
     if (ch !== null && plausible(ch.codePointAt(0) as number)) {
       n++;
+      if (b === 0xc2 || b === 0xc3 || ((b === 0xe2 || b === 0xe3) && bytes[i + 1] <= 0x83)) strong++;
       text += ch;
       i += len;
     } else {
@@ -128,7 +138,7 @@ function decodeSequences(bytes: number[]): { sequences: number; text: string | n
       i++;
     }
   }
-  return { sequences: n, text: whole ? text : null };
+  return { sequences: n, strong, text: whole ? text : null };
 }
 
 function decodeStrict(bytes: number[]): string | null {
@@ -140,19 +150,18 @@ function decodeStrict(bytes: number[]): string | null {
 }
 
 /**
- * Blocks that answers are written in (common practice): Latin-1 and Latin Extended, combining
- * accents, Greek, Cyrillic, Hebrew, Arabic; Indic scripts, Thai, Georgian, Vietnamese and Greek
- * extended letters; punctuation and symbols; CJK, kana and Hangul; full-width forms; emoji and
- * rare CJK. A misreading that would give Syriac, NKo or a control character (e.g. "ß€" → U+07C0)
- * is real text that only looks like mojibake.
+ * Blocks that answers are written in (common practice): Latin-1, Latin Extended and IPA letters
+ * (ɛ, ɔ, ə), modifier letters, combining accents, Greek, Cyrillic, Armenian, Hebrew, Arabic; the
+ * scripts of South and South-East Asia, Tibetan, Georgian, Ethiopic, Cherokee, Canadian
+ * syllabics, Khmer, Mongolian; Vietnamese and Greek extended letters; punctuation and symbols;
+ * CJK, kana and Hangul; full-width forms; emoji and rare CJK. A misreading that would give
+ * Syriac, Thaana, NKo or a control character (e.g. "ß€" → U+07C0, "ß“" → U+07D3) is real text
+ * that only looks like mojibake.
  */
 function plausible(cp: number): boolean {
   return (
-    (cp >= 0xa0 && cp <= 0x24f) ||
-    (cp >= 0x300 && cp <= 0x52f) ||
-    (cp >= 0x590 && cp <= 0x6ff) ||
-    (cp >= 0x900 && cp <= 0xe7f) ||
-    (cp >= 0x10a0 && cp <= 0x10ff) ||
+    (cp >= 0xa0 && cp <= 0x6ff) ||
+    (cp >= 0x900 && cp <= 0x1dff) ||
     (cp >= 0x1e00 && cp <= 0x2bff) ||
     (cp >= 0x3000 && cp <= 0x9fff) ||
     (cp >= 0xac00 && cp <= 0xd7a3) ||
