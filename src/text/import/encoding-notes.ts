@@ -21,9 +21,9 @@ export function withEncodingNotes(table: Table, decoded?: DecodedText): Table {
       kind: 'mixed-lines',
       rows: where,
       message:
-        `This file mixes encodings: ${plural(utf8Lines.length, 'line')} read as UTF-8, ${legacyLines.length} as ${legacyEncoding} ` +
+        `This file mixes encodings: ${plural(utf8Lines.length, 'line')} read as UTF-8, ${plural(legacyLines.length, 'line')} with accented letters or symbols as ${legacyEncoding} ` +
         `(UTF-8 in ${where.length > 0 ? describeRows(where) : `line ${describeList(utf8Lines)}`}). Each line was read in its own encoding; ` +
-        'check those answers in the preview, and save the file as UTF-8 next time.',
+        'check those answers, and save the file as UTF-8 next time.',
     });
   }
   if (decoded?.damagedLines && decoded.damagedLines.length > 0) {

@@ -45,7 +45,7 @@ describe('files that mix encodings', () => {
     const notes = t.assumed.encodingNotes ?? [];
     expect(notes.map((n) => n.kind)).toEqual(['mixed-lines']);
     expect(notes[0].rows).toEqual([4]);
-    expect(notes[0].message).toMatch(/mixes encodings: 1 line read as UTF-8, \d+ as windows-1252 \(UTF-8 in data row 4\)/);
+    expect(notes[0].message).toMatch(/mixes encodings: 1 line read as UTF-8, \d+ lines with accented letters or symbols as windows-1252 \(UTF-8 in data row 4\)/);
     expect(bytes.equals(copy)).toBe(true); // the bytes themselves are left as they were
   });
 
