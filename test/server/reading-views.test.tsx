@@ -75,3 +75,15 @@ describe('plain notes', () => {
     expect(plainNotes(['3 document(s) left out: no value for "x" or an unusable weight.', 'Something new.'], 'x')).toEqual(['Something new.']);
   });
 });
+
+describe('language order', () => {
+  it('puts the language the researcher named first first, else the one with most answers', async () => {
+    const { languageOrder } = await import('../../src/server/results/theme-names.js');
+    // Answers: 1 in de, 3 in en, 2 in es.
+    const data = { model: { languages: ['de', 'en', 'es'] }, docLanguage: Int32Array.from([0, 1, 1, 1, 2, 2]) } as never;
+    expect(languageOrder({ languages: ['es', 'de', 'en'] }, data)).toEqual(['es', 'en', 'de']);
+    // Alphabetical, as an import fills it in when no languages were named: most answers first.
+    expect(languageOrder({ languages: ['de', 'en', 'es'] }, data)).toEqual(['en', 'es', 'de']);
+    expect(languageOrder({ languages: [] }, data)).toEqual(['en', 'es', 'de']);
+  });
+});

@@ -39,6 +39,8 @@ export function reportProps(store: Store, study: Study, data: RunData, createdAt
     .filter((d) => (d.low > 0 || d.high < 0) && (Number.isNaN(d.pAdjusted) || d.discovery))
     .map((d) => (d.difference >= 0 ? d : { ...d, levelA: d.levelB, levelB: d.levelA, difference: -d.difference, low: -d.high, high: -d.low }))
     .sort((a, b) => b.difference - a.difference)
+    // One line per theme and covariate (its largest pair), so one strong effect does not fill the summary.
+    .filter((d, i, all) => all.findIndex((e) => e.theme === d.theme && e.covariate === d.covariate) === i)
     .slice(0, SUMMARY_DIFFERENCES);
   const checks = loadJsonResult<RunChecks>(store, model.run.id, 'checks');
   const coherence = new Map<number, number[]>();

@@ -1,7 +1,9 @@
 // What each theme is called on the pages: the label the researcher saved, or else a label
 // suggested from the theme's most distinctive words (src/eval/label-suggestion.ts), marked as a
-// suggestion until it is accepted. Also the order in which languages are shown: the study's
-// first declared language, then the others by number of answers (most first).
+// suggestion until it is accepted. Also the order in which languages are shown: the language
+// the researcher named first, then the others by number of answers (most first). A study whose
+// languages were found by the import keeps them in alphabetical order, which says nothing of
+// what matters most, so there the language with the most answers comes first.
 import { suggestThemeLabels, type LabelSuggestion } from '../../eval/index.js';
 import { getThemeLabels, type Store, type Study } from '../../store/index.js';
 import type { RunData } from './run-data.js';
@@ -24,7 +26,9 @@ export function languageOrder(study: Pick<Study, 'languages'>, data: Pick<RunDat
   const { languages } = data.model;
   const answers = new Array<number>(languages.length).fill(0);
   for (const l of data.docLanguage) if (l >= 0) answers[l]++;
-  const first = study.languages.find((l) => languages.includes(l));
+  const declared = study.languages.filter((l) => languages.includes(l));
+  const alphabetical = declared.length > 1 && declared.every((l, i) => i === 0 || declared[i - 1].localeCompare(l) < 0);
+  const first = alphabetical ? undefined : declared[0];
   return languages
     .map((language, l) => ({ language, n: answers[l] }))
     .sort((a, b) => (a.language === first ? -1 : b.language === first ? 1 : b.n - a.n || a.language.localeCompare(b.language)))
