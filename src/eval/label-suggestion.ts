@@ -46,23 +46,34 @@ export function relevance(phiKw: number, pw: number, lambda: number): number {
   return lambda * Math.log(phiKw) + (1 - lambda) * Math.log(phiKw / pw);
 }
 
-/** Word ids of one theme and language, most relevant first (ties: lower id first). */
-export function relevantWords(phi: Float64Array, K: number, k: number, weights: ArrayLike<number>, lambda: number, n: number): number[] {
+/** p_w = Σ_j π_j φ_jw for every word of one language, with π the normalised theme weights. */
+export function wordProbabilities(phi: Float64Array, K: number, weights: ArrayLike<number>): Float64Array {
   const V = phi.length / K;
-  if (V === 0 || n <= 0) return [];
   let total = 0;
   for (let j = 0; j < K; j++) total += Math.max(0, weights[j]);
-  const pi = new Float64Array(K);
-  for (let j = 0; j < K; j++) pi[j] = total > 0 ? Math.max(0, weights[j]) / total : 1 / K;
-  const scores = new Float64Array(V);
-  for (let w = 0; w < V; w++) {
-    let pw = 0;
-    for (let j = 0; j < K; j++) pw += pi[j] * phi[j * V + w];
-    scores[w] = relevance(phi[k * V + w], pw, lambda);
+  const pw = new Float64Array(V);
+  for (let j = 0; j < K; j++) {
+    const pi = total > 0 ? Math.max(0, weights[j]) / total : 1 / K;
+    if (pi === 0) continue;
+    const row = j * V;
+    for (let w = 0; w < V; w++) pw[w] += pi * phi[row + w];
   }
+  return pw;
+}
+
+function rank(phi: Float64Array, K: number, k: number, pw: Float64Array, lambda: number, n: number): number[] {
+  const V = pw.length;
+  if (V === 0 || n <= 0) return [];
+  const scores = new Float64Array(V);
+  for (let w = 0; w < V; w++) scores[w] = relevance(phi[k * V + w], pw[w], lambda);
   const ids = Array.from({ length: V }, (_, w) => w).filter((w) => scores[w] > -Infinity);
   ids.sort((a, b) => scores[b] - scores[a] || a - b);
   return ids.slice(0, n);
+}
+
+/** Word ids of one theme and language, most relevant first (ties: lower id first). */
+export function relevantWords(phi: Float64Array, K: number, k: number, weights: ArrayLike<number>, lambda: number, n: number): number[] {
+  return rank(phi, K, k, wordProbabilities(phi, K, weights), lambda, n);
 }
 
 export function suggestThemeLabels(input: LabelSuggestionInput): LabelSuggestion[] {
@@ -73,8 +84,9 @@ export function suggestThemeLabels(input: LabelSuggestionInput): LabelSuggestion
   const order = [primary, ...languages.map((_, l) => l).filter((l) => l !== primary)];
   const used = new Set<string>();
   const out: LabelSuggestion[] = [];
+  const pw = languages.map((_, l) => wordProbabilities(phi[l], K, themeWeights[l]));
   for (let k = 0; k < K; k++) {
-    const lists = order.map((l) => ({ l, ids: relevantWords(phi[l], K, k, themeWeights[l], lambda, listed + K) }));
+    const lists = order.map((l) => ({ l, ids: rank(phi[l], K, k, pw[l], lambda, listed + K) }));
     const primaryWords = lists[0].ids.map((w) => words[primary][w] ?? '').filter((w) => w !== '');
     let take = Math.min(per, primaryWords.length);
     let label = primaryWords.slice(0, take).join(', ');
