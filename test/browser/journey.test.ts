@@ -112,6 +112,15 @@ if (!haveBrowser && process.env.CI === 'true') {
       await page.waitForSelector('.label-form .saved');
       await page.reload();
       expect(await page.locator('.label-form input[name="label"]').first().inputValue()).toBe('Opening hours');
+      // The Themes table fits the window: no language, balance or score behind a side scroll (issue 14).
+      const fit = await page.evaluate(() => ({
+        table: document.querySelector('#themes')!.scrollWidth,
+        main: document.querySelector('main')!.clientWidth,
+        page: document.documentElement.scrollWidth,
+        window: window.innerWidth,
+      }));
+      expect(fit.table).toBeLessThanOrEqual(fit.main);
+      expect(fit.page).toBeLessThanOrEqual(fit.window);
       await shot('06-themes');
 
       await page.click('#themes tbody tr:first-child a:has-text("open")');
