@@ -165,7 +165,12 @@ describe('Checks', () => {
     expect(page).toContain('document completion');
     const runs = page.slice(page.indexOf('id="perplexity-runs"'), page.indexOf('</table>', page.indexOf('id="perplexity-runs"')));
     expect(runs).toContain('this run');
-    expect(runs).toContain('second seed');
+    expect(runs).toContain(`<a href="/studies/${linked.sid}/runs/${second}/checks">second seed</a>`);
+    // Both runs' figures side by side (the other run's checks computed when its page is opened, if not before).
+    await get(`/studies/${linked.sid}/runs/${second}/checks`);
+    const again = await (await get(`${base(linked)}/checks`)).text();
+    const table = again.slice(again.indexOf('id="perplexity-runs"'), again.indexOf('</table>', again.indexOf('id="perplexity-runs"')));
+    expect(table.match(/<td class="num">\d+\.\d<\/td>/g)!.length).toBe(2);
     expect(runs.match(/<tr/g)!.length).toBe(3); // header + two runs
   });
 

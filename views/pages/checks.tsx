@@ -21,7 +21,7 @@ export interface ChecksPageProps {
   readonly alignment: { pair: string; queries: number; candidates: number; precisionAt1: number; chance: number; mrr: number; chanceMrr: number }[];
   readonly heldOutThemes: ThemeAlignmentTable | null;
   readonly glossaryThemes: ThemeAlignmentTable | null;
-  readonly runs: { name: string; current: boolean; themes: number; holdout: number; seed: number; perplexity?: number; coherence?: number }[];
+  readonly runs: { name: string; href: string; current: boolean; themes: number; holdout: number; seed: number; perplexity?: number; coherence?: number }[];
   readonly stability: { label: string; value: number }[];
   readonly alpha: { label: string; value: number }[];
   readonly beta: { language: string; value: number }[];
@@ -118,11 +118,11 @@ export function ChecksPage(props: ChecksPageProps) {
           <tbody>
             {props.runs.map((r) => (
               <tr class={r.current ? 'current' : undefined}>
-                <td>{r.name}{r.current && <span class="tag">this run</span>}</td>
+                <td>{r.current ? r.name : <a href={r.href}>{r.name}</a>}{r.current && <span class="tag">this run</span>}</td>
                 <td class="num">{r.themes}</td>
                 <td class="num">{percent(r.holdout, 0)}</td>
                 <td class="num">{r.seed}</td>
-                <td class="num">{r.perplexity === undefined ? (r.holdout > 0 ? 'open its Checks' : 'none held out') : r.perplexity.toFixed(1)}</td>
+                <td class="num">{r.perplexity !== undefined ? r.perplexity.toFixed(1) : r.holdout > 0 ? <a href={r.href}>open its Checks</a> : 'none held out'}</td>
                 <td class="num">{fixed(r.coherence, 3)}</td>
               </tr>
             ))}

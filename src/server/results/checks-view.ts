@@ -70,6 +70,7 @@ export function checksProps(data: RunData, checks: RunChecks, names: readonly Th
     : [];
   const runs = peers.map(({ run, summary }) => ({
     name: run.name,
+    href: `/studies/${run.studyId}/runs/${run.id}/checks`,
     current: run.id === model.run.id,
     themes: run.settings.themes,
     holdout: run.settings.holdout,
