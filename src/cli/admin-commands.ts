@@ -2,14 +2,18 @@
 import { readFileSync } from 'node:fs';
 import type { Command } from 'commander';
 import { ensureDemoStudy } from '../services/index.js';
-import { describeScanning, scannerFromSetting } from '../platform/index.js';
+import { describeScanning, scannerFromSetting, type UploadScanner } from '../platform/index.js';
 import { createAccount, getAccountByName, giveOwnerlessStudiesToFirstAccount, passwordProblem, setPassword } from '../store/index.js';
-import { InputError } from '../text/types.js';
+import { InputError } from '../text/index.js';
 import { describeImport } from './study-commands.js';
 import type { CliContext } from './context.js';
 
-interface ServerModule {
-  startServer(options: {
+/**
+ * The workbench as the command line sees it: given by the composition root (src/main.ts), so the
+ * command line never imports the server (test/architecture/layers.test.ts).
+ */
+export interface WorkbenchServer {
+  start(options: {
     host: string;
     port?: number;
     dataDir: string;
@@ -17,10 +21,10 @@ interface ServerModule {
     secureCookies?: boolean;
     tls?: TlsFlagFiles;
     allowedHosts?: readonly string[];
-    requestLimits?: unknown;
-    uploadScanner?: unknown;
+    /** Requests a second per account or address (the server turns it into its limits). */
+    requestsPerSecond?: number;
+    uploadScanner?: UploadScanner;
   }): Promise<{ url: string; certificateValidTo?: Date; close(): Promise<void> }>;
-  requestLimitsFor(perSecond: number): unknown;
 }
 
 interface ServeFlags {
@@ -127,26 +131,20 @@ Without a proxy, serving HTTPS itself (renew the certificate yourself; Themata d
       }
       const tls = readTlsFlags(flags);
       const scanner = scannerFromSetting(flags.scanCommand, process.env);
-      let server: ServerModule | undefined;
-      try {
-        server = (await import(new URL('../server/index.js', import.meta.url).href)) as ServerModule;
-        if (typeof server.startServer !== 'function') server = undefined;
-      } catch (e) {
-        if ((e as NodeJS.ErrnoException).code !== 'ERR_MODULE_NOT_FOUND') throw e;
-      }
+      const server = ctx.deps.server;
       if (flags.demo) {
         const outcome = await ensureDemoStudy(ctx.openStore());
         if (outcome.summary) for (const line of describeImport(outcome.summary)) ctx.out(line);
       }
       if (!server) {
-        ctx.out(`The web workbench is not part of this build yet. Data folder: ${ctx.dataDir}. Use the command line meanwhile (themata --help).`);
+        ctx.out(`The web workbench is not part of this command. Data folder: ${ctx.dataDir}. Use the command line meanwhile (themata --help).`);
         return;
       }
       ctx.close(); // the server opens its own store
       let running;
       try {
         // A flag wins over its environment variable; without the flag startServer reads the variable.
-        running = await server.startServer({
+        running = await server.start({
           host: flags.host,
           ...(port !== undefined ? { port } : {}),
           dataDir: ctx.dataDir,
@@ -154,7 +152,7 @@ Without a proxy, serving HTTPS itself (renew the certificate yourself; Themata d
           ...(flags.secureCookies !== undefined ? { secureCookies: flags.secureCookies } : {}),
           ...(tls !== undefined ? { tls } : {}),
           ...(allowedHosts !== undefined ? { allowedHosts } : {}),
-          ...(rate !== undefined ? { requestLimits: server.requestLimitsFor(rate) } : {}),
+          ...(rate !== undefined ? { requestsPerSecond: rate } : {}),
           ...(scanner !== undefined ? { uploadScanner: scanner } : {}),
         });
       } catch (e) {

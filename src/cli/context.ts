@@ -5,7 +5,8 @@ import { basename } from 'node:path';
 import { SingleBar } from 'cli-progress';
 import type { Command } from 'commander';
 import { openStore, type Store } from '../store/index.js';
-import { InputError, type ColumnMapping, type CovariateType } from '../text/types.js';
+import { InputError, type ColumnMapping, type CovariateType } from '../text/index.js';
+import type { WorkbenchServer } from './admin-commands.js';
 
 export interface CliIo {
   readonly stdout: { write(text: string): unknown };
@@ -15,11 +16,21 @@ export interface CliIo {
   readStdin(): Promise<string>;
 }
 
+/** What the composition root (src/main.ts) gives the command line besides its streams. */
+export interface CliDeps {
+  /** The workbench for `serve`; without it `serve` says the workbench is not part of this command. */
+  readonly server?: WorkbenchServer;
+}
+
 export class CliContext {
   private store: Store | undefined;
   private readonly cleanups: (() => void)[] = [];
 
-  constructor(readonly io: CliIo, private readonly dataDirOf: () => string) {}
+  constructor(
+    readonly io: CliIo,
+    private readonly dataDirOf: () => string,
+    readonly deps: CliDeps = {},
+  ) {}
 
   get dataDir(): string {
     return this.dataDirOf();

@@ -1,2 +1,2 @@
 // Public surface of the command line.
-export { runCli, buildProgram, describeInputError, EXIT_INPUT, type CliIo } from './program.js';
+export { runCli, buildProgram, describeInputError, EXIT_INPUT, type CliIo, type CliDeps, type WorkbenchServer } from './program.js';

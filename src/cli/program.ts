@@ -1,16 +1,17 @@
 // The `themata` command line (DESIGN §9): same core calls as the workbench. `runCli` runs one
 // invocation in-process with its own output streams, so tests can drive it without a child
-// process; src/cli.ts connects it to the real process.
+// process; src/main.ts (the composition root) connects it to the real process and the workbench.
 import { Command, CommanderError } from 'commander';
-import { InputError } from '../text/types.js';
+import { InputError } from '../text/index.js';
 import { registerAdminCommands } from './admin-commands.js';
 import { registerCheckCommands } from './check-commands.js';
 import { registerGlossaryCommand } from './glossary-command.js';
-import { CliContext, type CliIo } from './context.js';
+import { CliContext, type CliDeps, type CliIo } from './context.js';
 import { registerRunCommands } from './run-commands.js';
 import { registerStudyCommands } from './study-commands.js';
 
-export type { CliIo } from './context.js';
+export type { CliDeps, CliIo } from './context.js';
+export type { WorkbenchServer } from './admin-commands.js';
 
 /** Exit codes: 0 done, 1 unexpected failure, 2 a problem with the input or the command line. */
 export const EXIT_INPUT = 2;
@@ -58,9 +59,9 @@ Exit codes: 0 done, 2 a problem with the input or the command line (one line on 
 }
 
 /** Run one command line (arguments after the program name); resolves to the exit code. */
-export async function runCli(args: readonly string[], io: CliIo): Promise<number> {
+export async function runCli(args: readonly string[], io: CliIo, deps: CliDeps = {}): Promise<number> {
   let program: Command | undefined;
-  const ctx = new CliContext(io, () => program!.opts<{ data: string }>().data);
+  const ctx = new CliContext(io, () => program!.opts<{ data: string }>().data, deps);
   program = buildProgram(ctx);
   try {
     await program.parseAsync([...args], { from: 'user' });

@@ -15,7 +15,7 @@ export const DEMO_RUN = { name: 'Eight themes (demo)', themes: 8, sweeps: 400, s
 import { countAccounts, listRuns, openStore } from '../store/index.js';
 import { createApp } from './app.js';
 import { normaliseAllowedHost } from './hosts.js';
-import { RequestRateLimiter, type RequestLimits } from './throttle.js';
+import { RequestRateLimiter, requestLimitsFor, type RequestLimits } from './throttle.js';
 
 export interface StartServerOptions {
   host?: string;
@@ -219,4 +219,13 @@ export async function startServer(options: StartServerOptions): Promise<RunningS
       store.close();
     },
   };
+}
+
+/**
+ * startServer as the command line asks for it (src/main.ts wires it into `themata serve`): the
+ * request limit as requests a second, turned into the limits here (throttle.ts).
+ */
+export function startWorkbench(options: Omit<StartServerOptions, 'requestLimits'> & { requestsPerSecond?: number }): Promise<RunningServer> {
+  const { requestsPerSecond, ...rest } = options;
+  return startServer({ ...rest, ...(requestsPerSecond !== undefined ? { requestLimits: requestLimitsFor(requestsPerSecond) } : {}) });
 }

@@ -1,4 +1,4 @@
-// The installed entry point (bin/themata.mjs → src/cli.ts) as a user runs it: exit codes and
+// The installed entry point (bin/themata.mjs → src/main.ts) as a user runs it: exit codes and
 // where output goes.
 import { spawnSync } from 'node:child_process';
 import { writeFileSync } from 'node:fs';

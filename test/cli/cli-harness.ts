@@ -1,6 +1,7 @@
 // Runs the command line in-process with captured output.
 import { Writable } from 'node:stream';
 import { runCli } from '../../src/cli/index.js';
+import { startWorkbench } from '../../src/server/index.js';
 
 export interface CliResult {
   code: number;
@@ -21,6 +22,6 @@ export async function cli(args: string[], stdin = ''): Promise<CliResult> {
     stdout: { write: (s: string) => (stdout += s) },
     stderr: err,
     readStdin: async () => stdin,
-  });
+  }, { server: { start: startWorkbench } });
   return { code, stdout, stderr };
 }
