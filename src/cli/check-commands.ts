@@ -3,7 +3,7 @@ import type { Command } from 'commander';
 import { buildKComparison, type KRunSummary } from '../eval/index.js';
 import { loadRunModel, numberSetting, requireStudy, runChecks, type RunChecks } from '../services/index.js';
 import { getRunByName } from '../store/index.js';
-import { InputError } from '../text/types.js';
+import { InputError } from '../text/index.js';
 import type { CliContext } from './context.js';
 import { fitInProcess, fitOptions, requireRunModel, type FitFlags } from './run-commands.js';
 

@@ -28,7 +28,7 @@ import {
 import { csvBytes, round6, toCsv } from '../services/csv.js';
 import { runFitInProcess } from '../jobs/index.js';
 import { getRun, getRunByName, getStudy, interruptIfAbandoned, type Run, type RunProgress, type Store } from '../store/index.js';
-import { InputError } from '../text/types.js';
+import { InputError } from '../text/index.js';
 import { scannerFromSetting, scanUpload } from '../platform/index.js';
 import { exportFiles, exportTables } from '../services/export-run.js';
 import { exportWorkbook } from '../services/export-workbook.js';

@@ -4,7 +4,7 @@ import { describeStudyContents, formatBytes, importFile, planImportRemoval, plan
 import { scannerFromSetting, scanUpload } from '../platform/index.js';
 import { listImports, topWords, vacuumStore, vocabularySizes, type Store } from '../store/index.js';
 import { normalizeLanguageTag } from '../text/language-tags.js';
-import { InputError } from '../text/types.js';
+import { InputError } from '../text/index.js';
 import { registerLanguageCommand } from './language-commands.js';
 import { formatCounts, mappingFromFlags, mappingOptions, parseNumber, readInputFile, type CliContext, type MappingFlags } from './context.js';
 

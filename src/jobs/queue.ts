@@ -17,7 +17,7 @@ import {
   type RunStatus,
   type Store,
 } from '../store/index.js';
-import { InputError } from '../text/types.js';
+import { InputError } from '../text/index.js';
 import { startTypeScriptWorker } from '../platform/index.js';
 import type { FromWorker } from './messages.js';
 import { RunTracker } from './run-tracker.js';

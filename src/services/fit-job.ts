@@ -21,7 +21,7 @@ import {
   type RunProgress,
   type Store,
 } from '../store/index.js';
-import { InputError } from '../text/types.js';
+import { InputError } from '../text/index.js';
 import { fitCorpus } from './fit-engine.js';
 import { fittedRunModel, storeFittedRun, type FitDiagnostics } from './fit-results.js';
 import { modelSettingsOf } from './run-settings-schema.js';

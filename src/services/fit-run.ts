@@ -4,7 +4,7 @@
 // covariate or the study is unknown, the name is taken, or the study has no answers to fit.
 // Running it is fit-job.ts; the lifecycle around it (status, progress, workers) is src/jobs.
 import { covariateLevels, createRun, getRunByName, getStudy, getStudyByName, languageSummary, uniqueRunName, type Run, type RunSettings, type Store } from '../store/index.js';
-import { InputError } from '../text/types.js';
+import { InputError } from '../text/index.js';
 import {
   checkRunSettings,
   COVARIATES_SETTING,

@@ -8,7 +8,7 @@
 // The settings as stored with a run use the researcher's words (themes, sweeps); the one place
 // they become the model's names (K, keepThetaSamples) is `modelSettingsOf` below.
 import type { RunSettings } from '../store/index.js';
-import { InputError } from '../text/types.js';
+import { InputError } from '../text/index.js';
 
 /** Where the person is: the command line (messages name flags) or the workbench (field labels). */
 export type Wording = 'flag' | 'label';

@@ -5,7 +5,7 @@ import { streamSSE } from 'hono/streaming';
 import { RunPage, RunProgressPanel, RunsPage, type ProgressView } from '../../../views/pages/runs.js';
 import { createFitRun, NUMBER_SETTINGS, readFitRequest, type SettingLimits } from '../../services/index.js';
 import { covariateLevels, getRun, languageSummary, listRuns, studyRole, type Run, type Study } from '../../store/index.js';
-import { InputError } from '../../text/types.js';
+import { InputError } from '../../text/index.js';
 import type { JobEvent } from '../../jobs/index.js';
 import { frame, runFor, studyFor } from '../access.js';
 import { renderPage } from '../render.js';
