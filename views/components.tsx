@@ -1,7 +1,7 @@
 // Small shared pieces of the pages.
 import type { Child } from 'hono/jsx';
 
-/** The cautions of DESIGN §10, shown wherever results are shown. */
+/** The cautions of docs/design.md §10, shown wherever results are shown. */
 export function Cautions(props: { weights?: boolean; privacy?: boolean }) {
   return (
     <aside class="caution" aria-label="How to read these results">

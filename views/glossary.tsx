@@ -1,4 +1,4 @@
-// Glossaries (DESIGN §3): a researcher's term lists, each row a concept in several languages,
+// Glossaries (docs/design.md §3): a researcher's term lists, each row a concept in several languages,
 // shown on the Data page (what was imported, with an upload form) and on the Languages page
 // (how many terms tie each language to the others).
 import { count, Notice, when } from './components.js';

@@ -1,5 +1,5 @@
 // The floor loop of the sampler benchmark (issue #5): the memory traffic every Gibbs sampler of
-// DESIGN §4 must do per token (read word and topic, rebuild the group's counts, move the token in
+// docs/design.md §4 must do per token (read word and topic, rebuild the group's counts, move the token in
 // n_gk, n_kw and n_k), with the topic choice replaced by a fixed rotation: no probabilities, no
 // random numbers. No sampler can beat it; its tokens/s is the practical ceiling.
 import type { Corpus } from '../../src/model/types.js';

@@ -1,5 +1,5 @@
 // `themata glossary`: import a researcher's term list (one row per concept, one column per
-// language of the study) as link groups of tiny documents (DESIGN §3), or list a study's glossaries.
+// language of the study) as link groups of tiny documents (docs/design.md §3), or list a study's glossaries.
 import type { Command } from 'commander';
 import { importGlossary, listGlossaries, requireStudy, type GlossarySummary } from '../services/index.js';
 import { scannerFromSetting, scanUpload } from '../platform/index.js';

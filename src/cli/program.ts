@@ -1,4 +1,4 @@
-// The `themata` command line (DESIGN §9): same core calls as the workbench. `runCli` runs one
+// The `themata` command line (docs/design.md §9): same core calls as the workbench. `runCli` runs one
 // invocation in-process with its own output streams, so tests can drive it without a child
 // process; src/main.ts (the composition root) connects it to the real process and the workbench.
 import { Command, CommanderError } from 'commander';

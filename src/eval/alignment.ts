@@ -1,4 +1,4 @@
-// Cross-language alignment on held-out link groups (DESIGN §6).
+// Cross-language alignment on held-out link groups (docs/design.md §6).
 //
 // Each held-out document's mixture is inferred from its own language alone (the caller folds
 // in each document separately). For every ordered pair of languages (a → b), each document of

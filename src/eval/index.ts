@@ -1,5 +1,5 @@
 // Public surface of src/eval: held-out perplexity, coherence, cross-language alignment,
-// stability and the K comparison (DESIGN §6). Pure functions over typed arrays.
+// stability and the K comparison (docs/design.md §6). Pure functions over typed arrays.
 export { topicWordDistributions, topWords, type TopicWordCounts } from './topic-words.js';
 export {
   splitDocument,

@@ -1,5 +1,5 @@
 // Choosing K: held-out perplexity, coherence and stability over a range of K, side by side
-// (DESIGN §6). Several seeds per K give the spread of perplexity and the stability score
+// (docs/design.md §6). Several seeds per K give the spread of perplexity and the stability score
 // (Greene, O'Callaghan & Cunningham, ECML PKDD 2014).
 import { stabilityAcrossRuns, type RunThemes } from './stability.js';
 

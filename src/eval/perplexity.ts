@@ -9,7 +9,7 @@
 // estimator is the common "estimated θ" variant; it is exact when θ is the true mixture, which
 // is what the simulation test checks.
 //
-// A held-out unit is a link group (DESIGN §3): its documents share one mixture, so the observed
+// A held-out unit is a link group (docs/design.md §3): its documents share one mixture, so the observed
 // parts of all its documents are folded in together and all evaluated parts are scored.
 
 /** How a document's tokens are split. */

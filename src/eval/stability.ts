@@ -4,7 +4,7 @@
 // topic models", ECML PKDD 2014, §3: the themes of two runs are put in one-to-one
 // correspondence by the Hungarian method (Kuhn 1955; Munkres 1957) maximizing total
 // similarity, and agreement is the mean similarity of matched pairs. Greene et al. compare
-// top-term rankings by average Jaccard; here, as DESIGN §6 asks, the similarity is the cosine
+// top-term rankings by average Jaccard; here, as docs/design.md §6 asks, the similarity is the cosine
 // of the themes' full word distributions, all languages concatenated (each φ_kℓ sums to 1, so
 // every language weighs the same). With several runs, run 0 is the reference: a theme's score
 // is the mean cosine to its matched theme in every other run; the overall score is the mean

@@ -1,4 +1,4 @@
-// Per-theme alignment across languages (DESIGN §6, issue 12): for each theme and pair of
+// Per-theme alignment across languages (docs/design.md §6, issue 12): for each theme and pair of
 // languages, do two texts that say the same thing in the two languages get the same theme?
 //
 // Input: matched pairs, each two theme mixtures for two texts in different languages that are

@@ -1,5 +1,5 @@
 // Checkpoints of a fit: everything needed to continue a run exactly as if it had never stopped
-// (DESIGN §4): assignments z, RNG state, hyperparameters, sweep number, the log-likelihood
+// (docs/design.md §4): assignments z, RNG state, hyperparameters, sweep number, the log-likelihood
 // trace and the posterior-sample accumulators. Counts are not saved: every sampler rebuilds
 // them from z.
 //

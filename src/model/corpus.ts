@@ -1,4 +1,4 @@
-// Corpus arrays (DESIGN §3): flat typed arrays built from the text pipeline's per-document
+// Corpus arrays (docs/design.md §3): flat typed arrays built from the text pipeline's per-document
 // word ids. Documents sharing a link key form one link group and share one topic mixture
 // ("Polylingual Topic Models", Mimno et al., EMNLP 2009, §2); a document without a key is its
 // own group. Documents of a group are made contiguous so a sampler can walk a group at a time.

@@ -5,7 +5,7 @@
 //   ℓ(λ) = Σ_g [ln Γ(A_g) − ln Γ(A_g + n_g) + Σ_k (ln Γ(α_gk + n_gk) − ln Γ(α_gk))]
 //          − Σ_k Σ_f λ_kf² / (2σ_f²),
 //   ∂ℓ/∂λ_kf = Σ_g x_gf α_gk [ψ(A_g) − ψ(A_g + n_g) + ψ(α_gk + n_gk) − ψ(α_gk)] − λ_kf / σ_f²,
-// (σ_0² for the intercept, σ_f² for the other features; DESIGN §4). Without covariates x = [1]
+// (σ_0² for the intercept, σ_f² for the other features; docs/design.md §4). Without covariates x = [1]
 // and this learns an asymmetric α (Wallach, Mimno & McCallum, "Rethinking LDA: why priors
 // matter", NIPS 2009).
 // Count histograms (Wallach, "Structured topic models for language", PhD thesis, Cambridge

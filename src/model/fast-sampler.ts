@@ -1,6 +1,6 @@
 // The fast exact sampler: the SparseLDA bucket decomposition (Yao, Mimno & McCallum, "Efficient
 // methods for topic model inference on streaming document collections", KDD 2009) over link
-// groups, languages and per-pattern α. Same conditional as the reference sampler (DESIGN §4),
+// groups, languages and per-pattern α. Same conditional as the reference sampler (docs/design.md §4),
 // less work per token: see fast-sweep.ts for the decomposition and fast-state.ts for the counts.
 import type { Corpus, Priors, Rng, Sampler, SamplerFactory } from './types.js';
 import { FastState } from './fast-state.js';

@@ -1,4 +1,4 @@
-// Covariate features of link groups for Dirichlet-multinomial regression (DESIGN §4;
+// Covariate features of link groups for Dirichlet-multinomial regression (docs/design.md §4;
 // Mimno & McCallum, "Topic models conditioned on arbitrary features with Dirichlet-multinomial
 // regression", UAI 2008): x_g = [1, one indicator per categorical level but the first,
 // standardized numeric covariates]. Groups with identical rows share one "pattern", so α is

@@ -1,5 +1,5 @@
 // The fit driver: sweeps of a collapsed Gibbs sampler, hyperparameter optimization every few
-// sweeps, saved posterior samples after burn-in, progress and checkpoints (DESIGN §4). Pure:
+// sweeps, saved posterior samples after burn-in, progress and checkpoints (docs/design.md §4). Pure:
 // the caller (a worker thread, the CLI, a test) decides where progress and checkpoints go.
 //
 // Schedule (common practice, as in Wallach, Mimno & McCallum, "Rethinking LDA: why priors

@@ -1,4 +1,4 @@
-// Fold-in inference for new or held-out documents (DESIGN §4).
+// Fold-in inference for new or held-out documents (docs/design.md §4).
 //
 // Method: with the topic-word distributions fixed at the posterior mean φ̂ and the document's
 // prior α_k = exp(λ_k · x) from its covariates (Mimno & McCallum, UAI 2008), Gibbs-sample the

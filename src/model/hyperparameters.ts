@@ -1,4 +1,4 @@
-// One re-estimation of the hyperparameters from a sampler's current state (DESIGN §4): β_ℓ by
+// One re-estimation of the hyperparameters from a sampler's current state (docs/design.md §4): β_ℓ by
 // Minka's fixed point ("Estimating a Dirichlet distribution", 2000) on count histograms, λ by
 // L-BFGS on the DMR log posterior (Mimno & McCallum, UAI 2008). Shared by the fit driver and the
 // start search so both schedules optimize the same way.

@@ -1,4 +1,4 @@
-// Public surface of the numerical core (DESIGN §2, §4). Pure: typed arrays in, plain data out.
+// Public surface of the numerical core (docs/design.md §2, §4). Pure: typed arrays in, plain data out.
 export type { Corpus, Priors, Rng, Sampler, SamplerFactory } from './types.js';
 export { Xoshiro128, RNG_STATE_VERSION } from './rng.js';
 export { buildCorpus, groupTokenRange, tokensPerLanguage, MAX_TOPICS } from './corpus.js';

@@ -8,7 +8,7 @@
 // Method, the initialization of initialize.ts restricted to language ℓ: (1) the ℓ-tokens of
 // multilingual link groups start at random and get `sweeps` Gibbs sweeps whose group counts
 // include the frozen tokens of the other languages; (2) every other ℓ-token is drawn from the
-// collapsed conditional (DESIGN §4; Griffiths & Steyvers, PNAS 2004, eq. 5) with the word counts of
+// collapsed conditional (docs/design.md §4; Griffiths & Steyvers, PNAS 2004, eq. 5) with the word counts of
 // step 1 held fixed; (3) `sweeps` Gibbs sweeps over all ℓ-tokens. The caller relaxes the whole
 // chain and keeps the result only if the joint likelihood rises (start-search.ts).
 import type { Corpus, Priors, Rng } from './types.js';

@@ -1,4 +1,4 @@
-// Joint log-likelihood log p(w, z | α, β) of the collapsed polylingual DMR model (DESIGN §4):
+// Joint log-likelihood log p(w, z | α, β) of the collapsed polylingual DMR model (docs/design.md §4):
 //   Σ_g [ln Γ(A_g) − ln Γ(A_g + n_g) + Σ_k (ln Γ(α_gk + n_gk) − ln Γ(α_gk))]
 // + Σ_ℓ Σ_k [ln Γ(V_ℓ β_ℓ) − ln Γ(V_ℓ β_ℓ + n_k^ℓ) + Σ_w (ln Γ(β_ℓ + n_kw^ℓ) − ln Γ(β_ℓ))],
 // Griffiths & Steyvers, "Finding scientific topics", PNAS 2004, eq. 2–3, with one mixture per

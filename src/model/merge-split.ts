@@ -7,7 +7,7 @@
 // Method: the split proposal of Jain & Neal ("A split-merge Markov chain Monte Carlo procedure
 // for the Dirichlet process mixture model", J. Comput. Graph. Stat. 2004): merge topics a and b
 // (every b token becomes a), then split topic c into c and the freed label b by restricted Gibbs
-// sweeps that only choose between c and b, using the collapsed conditional of DESIGN §4
+// sweeps that only choose between c and b, using the collapsed conditional of docs/design.md §4
 // (Griffiths & Steyvers, PNAS 2004, eq. 5). Here it is a perturbation for a search, not an MCMC
 // move: the caller lets the chain relax for some sweeps and keeps the result only if the joint
 // likelihood is then higher (iterated local search, common practice). Used only to build the

@@ -1,4 +1,4 @@
-// Saved posterior samples (DESIGN §4): after burn-in, every few sweeps, the conditional means
+// Saved posterior samples (docs/design.md §4): after burn-in, every few sweeps, the conditional means
 // E[φ_kℓ | z] = (n_kw + β_ℓ)/(n_k^ℓ + V_ℓβ_ℓ) and E[θ_g | z] = (n_gk + α_gk)/(n_g + A_g) are
 // added to running sums, so φ̂ and θ̂ are posterior means over samples (Griffiths & Steyvers,
 // "Finding scientific topics", PNAS 2004, eq. 6–7, averaged over samples as in their §3), and

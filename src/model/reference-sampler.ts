@@ -1,4 +1,4 @@
-// Reference collapsed Gibbs sampler for the polylingual DMR topic model (DESIGN §4).
+// Reference collapsed Gibbs sampler for the polylingual DMR topic model (docs/design.md §4).
 //
 // Method: for each token i of a document in language ℓ, link group g (pattern p), word w,
 //   p(z_i = k | rest) ∝ (n_gk + α_pk) · (n_kw^ℓ + β_ℓ) / (n_k^ℓ + V_ℓ β_ℓ),   counts exclude i,

@@ -1,8 +1,8 @@
-// Shared contracts of the numerical core. Plain data and typed arrays only (DESIGN §2–§4):
+// Shared contracts of the numerical core. Plain data and typed arrays only (docs/design.md §2–§4):
 // no SQL, HTTP or file paths may enter src/model.
 
 /**
- * The corpus as flat typed arrays (DESIGN §3): never arrays of objects per token.
+ * The corpus as flat typed arrays (docs/design.md §3): never arrays of objects per token.
  * Documents are ordered so that the documents of one link group are contiguous:
  * group g owns documents groupDocOffsets[g] .. groupDocOffsets[g+1]-1.
  */
@@ -52,7 +52,7 @@ export interface Rng {
 }
 
 /**
- * A collapsed Gibbs sampler for the polylingual DMR model (DESIGN §4). The canonical state is
+ * A collapsed Gibbs sampler for the polylingual DMR model (docs/design.md §4). The canonical state is
  * the assignment vector z; every count a sampler keeps is derivable from z, so checkpoints save
  * only z, the priors and the RNG state. Reference and fast samplers implement the same interface
  * and must pass one shared exactness suite.

@@ -3,7 +3,7 @@
 // request must carry the session's CSRF token (form field `_csrf` or header `X-CSRF-Token`, which
 // htmx sends from hx-headers), and a cross-origin Origin header is refused outright
 // (OWASP ASVS 4.0.3, V3 "Session Management" and V4.2.2 "anti-CSRF").
-// With no accounts and a loopback-only server, Themata runs as one local user (DESIGN §9).
+// With no accounts and a loopback-only server, Themata runs as one local user (docs/design.md §9).
 import { timingSafeEqual } from 'node:crypto';
 import type { Context, MiddlewareHandler } from 'hono';
 import { deleteCookie, getCookie } from 'hono/cookie';

@@ -1,4 +1,4 @@
-// The answers-by-theme table (DESIGN §8), shared by Export and Apply so both files have the same
+// The answers-by-theme table (docs/design.md §8), shared by Export and Apply so both files have the same
 // columns: the original id column (under its name in the imported file), question (only when
 // the file had several text columns: with one it would say the same on every row), the answer
 // text (optional), the metadata columns (under their original names), language, link key,

@@ -1,4 +1,4 @@
-// Apply: code a new file with a saved run (DESIGN §7–8). The file is read and mapped like an
+// Apply: code a new file with a saved run (docs/design.md §7–8). The file is read and mapped like an
 // import, each answer's language decided among the run's languages, its words stemmed with the
 // study's pipeline settings and matched to the run's vocabulary by stem, and its mixture found
 // by fold-in with the run's theme-word distributions fixed. Nothing is written to any study.

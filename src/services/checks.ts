@@ -1,4 +1,4 @@
-// Checks of a finished run (DESIGN §6, issue 6): held-out document-completion perplexity,
+// Checks of a finished run (docs/design.md §6, issue 6): held-out document-completion perplexity,
 // coherence per theme and language, cross-language alignment on held-out link groups, stability
 // against other runs of the study with the same K, and the fitted hyperparameters. The figures
 // come from src/eval; this file only gathers the run's documents and mixtures for it.

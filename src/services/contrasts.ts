@@ -1,4 +1,4 @@
-// Group contrasts for a run (DESIGN §6): the fitted answers' posterior mixture samples, the
+// Group contrasts for a run (docs/design.md §6): the fitted answers' posterior mixture samples, the
 // chosen covariate's levels and the survey weights, handed to src/stats.
 import { groupContrasts, type ContrastResult } from '../stats/index.js';
 import { covariateLevels, iterateDocuments, type Store } from '../store/index.js';

@@ -1,4 +1,4 @@
-// Export of a finished run (DESIGN §8): the files people take away, built in memory.
+// Export of a finished run (docs/design.md §8): the files people take away, built in memory.
 import { documentTokensByIds, getStudy, getStudyWordLists, iterateDocuments, listImports, loadVocabulary, type Store } from '../store/index.js';
 import { answersTable, blankReasonFor, type AnswerRow } from './answers-table.js';
 import { BUNDLE_EXTENSION, BUNDLE_VERSION, encodeBundle, type RunBundle } from './bundle.js';
@@ -186,7 +186,7 @@ export function exportTables(store: Store, model: RunModel, options: ExportOptio
   return { answers, words: { header: WORDS_HEADER, rows: themeWordsRows(model, n) }, shares: { header: SHARES_HEADER, rows: shareRows }, themes, codebook };
 }
 
-/** Every file of DESIGN §8 for one run (the HTML report is the workbench's), as CSV and JSON. */
+/** Every file of docs/design.md §8 for one run (the HTML report is the workbench's), as CSV and JSON. */
 export function exportRun(store: Store, model: RunModel, options: ExportOptions = {}): ExportedFile[] {
   return exportFiles(store, model, exportTables(store, model, options));
 }

@@ -137,7 +137,7 @@ export function prepareCorpus(store: Store, run: Run): PreparedCorpus {
   const languages = [...new Set(docs.map((d) => d.language))].sort();
   const vocabularies = languages.map((l) => loadVocabulary(store, run.studyId, l));
   const held = heldOutGroups(docs.map((d) => d.linkKey ?? `#${d.id}`), run.settings.holdout, run.settings.seed);
-  // A glossary's rows are links, not answers to test on: always fitted (DESIGN §3).
+  // A glossary's rows are links, not answers to test on: always fitted (docs/design.md §3).
   docs.forEach((d, i) => d.glossary && (held[i] = 0));
   const train = docs.filter((_, i) => held[i] === 0);
   if (train.length === 0) throw new InputError('Every answer was held out; lower the held-out share.');

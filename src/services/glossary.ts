@@ -1,4 +1,4 @@
-// Importing a researcher's glossary into a study as link groups (DESIGN §3, issue 12): each row
+// Importing a researcher's glossary into a study as link groups (docs/design.md §3, issue 12): each row
 // (one concept) becomes one link group, with one tiny document per language holding that
 // language's terms. The tiny documents go through the study's token step exactly as answers do,
 // so a glossary term gets the same stem id as the same word in an answer, and the fit (which

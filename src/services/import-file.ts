@@ -1,4 +1,4 @@
-// Importing a file into a study (DESIGN §3, issue 2): read and map the file, decide each answer's
+// Importing a file into a study (docs/design.md §3, issue 2): read and map the file, decide each answer's
 // language, keep the original bytes, then re-run the vocabulary over the whole study. Reading
 // and checking happen before anything is written; every write is one transaction, so bad input
 // (an InputError) or a failure half-way leaves the study exactly as it was.

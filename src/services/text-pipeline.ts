@@ -45,7 +45,7 @@ export interface LanguageOutcome {
 }
 
 /**
- * Decide each answer's language (DESIGN §5): the declared (questionnaire) language is a strong
+ * Decide each answer's language (docs/design.md §5): the declared (questionnaire) language is a strong
  * prior, not the truth (DECLARED_PRIOR of the mass, src/text/language/declared-prior.ts), so
  * confident detection of the written language wins and too little evidence keeps the
  * declaration; the declared language itself is stored beside the decision. With

@@ -55,7 +55,7 @@ export function planVocabulary(
   const settings = pipelineSettings(study?.settings.pipeline, studyId === null ? {} : getStudyWordLists(store, studyId));
   const languages = [...docs.languages, ...added.map((d) => d.language)];
   const prepared = prepareDocuments(
-    // Glossary documents take the answers' word ids but do not shape the vocabulary (DESIGN §3).
+    // Glossary documents take the answers' word ids but do not shape the vocabulary (docs/design.md §3).
     [...docs.texts.map((text, i) => ({ language: docs.languages[i], text, reference: docs.glossary[i] === 1 })), ...added],
     settings,
     onProgress,

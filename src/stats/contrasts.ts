@@ -14,7 +14,7 @@
 // keeps p above zero with finitely many draws, common practice). Benjamini & Hochberg (1995)
 // flags are computed over all differences of one covariate.
 //
-// Assumptions shown to users (DESIGN §10): answers are independent; weights are correct.
+// Assumptions shown to users (docs/design.md §10): answers are independent; weights are correct.
 // Cost: S·D·K to total the units once, then B·(Σ_ℓ min(n_ℓ, cap))·K for the draws (see
 // bootstrapDraws); resamples are typed-array multiplicities, never objects.
 import { Xoshiro128 } from '../model/rng.js';
@@ -61,7 +61,7 @@ export interface ContrastOptions {
   readonly reference?: string;
 }
 
-/** One row of `theme-shares-by-group.csv` (DESIGN §8). */
+/** One row of `theme-shares-by-group.csv` (docs/design.md §8). */
 export interface ShareRow {
   readonly covariate: string;
   readonly level: string;

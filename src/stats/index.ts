@@ -1,4 +1,4 @@
-// Public surface of src/stats: group contrasts, survey weights, intervals (DESIGN §6).
+// Public surface of src/stats: group contrasts, survey weights, intervals (docs/design.md §6).
 export { weightedMean, kishEffectiveN, kishEffectiveNOf } from './weighted.js';
 export { quantile, quantileSorted, sortedFinite, percentileInterval } from './quantile.js';
 export { benjaminiHochberg, type FdrResult } from './fdr.js';

@@ -47,7 +47,7 @@ export interface DocumentTokens {
   readonly covariates: Record<string, string | number | null>;
   readonly weight: number;
   readonly tokens: Int32Array;
-  /** A glossary's term list (DESIGN §3): a link-group member for the fit, never an answer. */
+  /** A glossary's term list (docs/design.md §3): a link-group member for the fit, never an answer. */
   readonly glossary: boolean;
 }
 
@@ -127,7 +127,7 @@ export function setDocumentTokens(
 }
 
 /**
- * Documents that are answers: not the tiny documents of a glossary import (DESIGN §3), which
+ * Documents that are answers: not the tiny documents of a glossary import (docs/design.md §3), which
  * the fit uses as link groups but no page, contrast, export or review counts as answers.
  */
 const ANSWER_DOCUMENTS = "import_id NOT IN (SELECT id FROM imports WHERE kind = 'glossary')";

@@ -1,4 +1,4 @@
-// Glossary imports (DESIGN §3): each row of a researcher's term list is a link group of tiny
+// Glossary imports (docs/design.md §3): each row of a researcher's term list is a link group of tiny
 // documents, one per language. These counts say how much of each glossary reached the fit: a
 // cell whose words are all stop words or pruned away has no tokens and links nothing.
 import type { Store } from './database.js';

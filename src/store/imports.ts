@@ -1,5 +1,5 @@
 // Imports keep the uploaded file exactly as it came (bytes + SHA-256) with the mapping used, so
-// nothing a user uploaded is lost or needs uploading again (DESIGN §3).
+// nothing a user uploaded is lost or needs uploading again (docs/design.md §3).
 import { createHash } from 'node:crypto';
 import type { ColumnMapping, TableFormat } from '../text/types.js';
 import { inTransaction, now, type Store } from './database.js';

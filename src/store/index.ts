@@ -1,4 +1,4 @@
-// Public surface of the store: the only code in Themata that speaks SQL (DESIGN §2).
+// Public surface of the store: the only code in Themata that speaks SQL (docs/design.md §2).
 // Every function takes the Store from openStore(dataDir) first; multi-row writes are one
 // transaction each; wrap several calls in inTransaction() to make them one.
 export { openStore, inTransaction, withBusyRetry, isBusyError, DATABASE_FILE, type Store, type OpenStoreOptions } from './database.js';

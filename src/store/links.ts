@@ -1,4 +1,4 @@
-// How a study's languages are tied together (DESIGN §3, issue 12): link groups of answers (a
+// How a study's languages are tied together (docs/design.md §3, issue 12): link groups of answers (a
 // shared link key across languages: translations, paired texts) and rows of an imported
 // glossary. Without either, nothing in the fit makes a theme mean the same in every language.
 import type { Store } from './database.js';

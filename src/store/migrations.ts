@@ -188,7 +188,7 @@ ALTER TABLE sessions ADD COLUMN password_changes_told INTEGER NOT NULL DEFAULT 0
   {
     version: 6,
     description: 'what an import holds: answers, or a glossary whose rows become link groups of tiny documents',
-    // DESIGN §3: a glossary (one row per concept, one column per language) is imported as link
+    // docs/design.md §3: a glossary (one row per concept, one column per language) is imported as link
     // groups; its documents tie languages together in the fit but are never answers.
     sql: `
 ALTER TABLE imports ADD COLUMN kind TEXT NOT NULL DEFAULT 'answers' CHECK (kind IN ('answers', 'glossary'));

@@ -6,7 +6,7 @@ import { inTransaction, now, type Store } from './database.js';
 
 export type RunStatus = 'queued' | 'running' | 'interrupted' | 'cancelled' | 'failed' | 'finished';
 
-/** Settings of a fit as the user chose them (DESIGN §3). */
+/** Settings of a fit as the user chose them (docs/design.md §3). */
 export interface RunSettings {
   themes: number;
   sweeps: number;

@@ -1,4 +1,4 @@
-// Public surface of src/text (DESIGN §2, §5): import → language id → tokens → vocabulary.
+// Public surface of src/text (docs/design.md §2, §5): import → language id → tokens → vocabulary.
 export * from './types.js';
 export * from './import/index.js';
 export * from './language/index.js';

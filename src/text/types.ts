@@ -1,4 +1,4 @@
-// Shared contracts of the text pipeline (DESIGN §3, §5). Plain data only: the pipeline takes
+// Shared contracts of the text pipeline (docs/design.md §3, §5). Plain data only: the pipeline takes
 // bytes and strings and returns tables, decisions and typed arrays; it never touches disk.
 
 /** An error a user can cause and fix: names the file, row and column where it can. */

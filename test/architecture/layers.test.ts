@@ -1,4 +1,4 @@
-// The one-way dependencies of DESIGN §2, checked by reading every import in src/.
+// The one-way dependencies of docs/design.md §2, checked by reading every import in src/.
 // The pure core (text, model, eval, stats) must not reach SQL, HTTP or the file system, and must
 // not import the layers above it; server and CLI never import each other's modules.
 import { readdirSync, readFileSync, statSync } from 'node:fs';
@@ -31,7 +31,7 @@ const pureLayers = ['text', 'model', 'eval', 'stats'];
 const forbiddenInPure = [/^better-sqlite3$/, /^hono/, /^@hono\//, /^(node:)?fs(\/promises)?$/, /^(node:)?path$/, /^(node:)?https?$/, /^(node:)?net$/];
 const higherLayers = ['store', 'jobs', 'server', 'services', 'cli'];
 
-describe('layering (DESIGN §2)', () => {
+describe('layering (docs/design.md §2)', () => {
   for (const layer of pureLayers) {
     it(`src/${layer} imports no SQL, HTTP, file-system module or higher layer`, () => {
       const offences: string[] = [];

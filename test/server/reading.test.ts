@@ -277,7 +277,7 @@ describe('the HTML report', () => {
     expect(html).toMatch(/\d+\.\d%<span class="interval"> \d+\.\d%–\d+\.\d%<\/span>/);
     expect(html).toContain('@media print');
     expect(html).toContain('break-before: page');
-    // DESIGN §10 cautions, in the summary.
+    // docs/design.md §10 cautions, in the summary.
     const cautions = html.slice(summary, detail);
     expect(cautions).toContain('they are not causes');
     expect(cautions).toContain('only as good as the survey weights');

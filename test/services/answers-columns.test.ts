@@ -1,5 +1,5 @@
 // answers-by-theme.csv carries the original id and metadata columns under the names they have in
-// the researcher's file (DESIGN §8), in Export and in Apply. Invented study and file.
+// the researcher's file (docs/design.md §8), in Export and in Apply. Invented study and file.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { applyRun } from '../../src/services/apply-run.js';
 import { buildBundle, exportRun, studyIdColumn } from '../../src/services/export-run.js';

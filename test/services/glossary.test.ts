@@ -1,4 +1,4 @@
-// Glossary rows as link groups (DESIGN §3, issue 12). Outside check: a real five-language
+// Glossary rows as link groups (docs/design.md §3, issue 12). Outside check: a real five-language
 // glossary and real short answers from the `emojibase-data` package (MIT; see emojibase-glossary.ts).
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { createFitRun, glossaryLinkKey, glossaryTermsByLanguage, importFile, importGlossary, listGlossaries, prepareCorpus, removeImport } from '../../src/services/index.js';

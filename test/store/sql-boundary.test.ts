@@ -1,4 +1,4 @@
-// DESIGN §2: src/store is the only code that speaks SQL. Checked by reading every source file.
+// docs/design.md §2: src/store is the only code that speaks SQL. Checked by reading every source file.
 import { existsSync, readdirSync, readFileSync, statSync } from 'node:fs';
 import { join, relative } from 'node:path';
 import { describe, expect, it } from 'vitest';

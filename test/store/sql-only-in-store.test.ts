@@ -1,4 +1,4 @@
-// DESIGN §2: only src/store speaks SQL. sql-boundary.test.ts catches calls on a connection; this
+// docs/design.md §2: only src/store speaks SQL. sql-boundary.test.ts catches calls on a connection; this
 // one catches SQL text itself (a statement built in services, the CLI, jobs, the server or a view
 // and handed to the store to run), so repository functions stay the only place queries live.
 import { existsSync, readdirSync, readFileSync, statSync } from 'node:fs';

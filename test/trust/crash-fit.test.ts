@@ -4,7 +4,7 @@
 // `PRAGMA integrity_check` (SQLite documentation, "PRAGMA integrity_check") and no checkpoint is
 // lost; after every restart the run shows as interrupted (or still queued) and is resumed through
 // the Resume button's form. The finished run must equal, bit for bit, an uninterrupted run with
-// the same seed and thread count (DESIGN §4: "same seed + settings + thread count ⇒ same result,
+// the same seed and thread count (docs/design.md §4: "same seed + settings + thread count ⇒ same result,
 // including after resume").
 import { afterAll, describe, expect, it } from 'vitest';
 import { Xoshiro128 } from '../../src/model/rng.js';

@@ -22,7 +22,7 @@ function surveyFile(): Uint8Array {
   return new TextEncoder().encode(`${lines.join('\r\n')}\r\n`);
 }
 
-/** Column roles of the demo file on the mapping form (DESIGN §3). */
+/** Column roles of the demo file on the mapping form (docs/design.md §3). */
 const ROLES: Record<string, string> = {
   answer_id: 'id',
   answer: 'text',

@@ -1,4 +1,4 @@
-// Export (the files of DESIGN §8 and a printable report) and Apply (code a new file with this run).
+// Export (the files of docs/design.md §8 and a printable report) and Apply (code a new file with this run).
 import { Cautions, count, Notice, when } from '../components.js';
 import { CsrfField, Layout, type PageFrame } from '../layout.js';
 

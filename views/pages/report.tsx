@@ -3,7 +3,7 @@
 // report a researcher would send: a one-page summary first (what the themes are, how large,
 // the clearest differences between groups with intervals, how far to trust them), then the
 // detail (words in every language, every group's shares with intervals, the fit), then the
-// cautions of DESIGN §10 and how the figures were made.
+// cautions of docs/design.md §10 and how the figures were made.
 import { IntervalChart, LineChart } from '../charts/index.js';
 import { count, percent, when } from '../components.js';
 

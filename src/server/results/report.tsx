@@ -1,4 +1,4 @@
-// The standalone HTML report of a run (DESIGN §8): the props of views/pages/report.tsx from the
+// The standalone HTML report of a run (docs/design.md §8): the props of views/pages/report.tsx from the
 // run's cached data, its stored checks (when the Checks page has been opened) and the theme
 // names, rendered to one HTML text with the workbench's stylesheet and the report's own rules.
 import { readFileSync } from 'node:fs';

@@ -1,4 +1,4 @@
-// Export (prepare the files of DESIGN §8 and the printable report; download them) and Apply
+// Export (prepare the files of docs/design.md §8 and the printable report; download them) and Apply
 // (code a new file with this run). Downloads come only from the run's own prepared files,
 // looked up by id and checked to belong to this run; names are never used as paths.
 import { Hono, type Context } from 'hono';

@@ -1,4 +1,4 @@
-// Public surface of the importers: bytes → Table → mapped documents (DESIGN §3, §5).
+// Public surface of the importers: bytes → Table → mapped documents (docs/design.md §3, §5).
 export { readTable, READ_TABLE_DEFAULTS, type ReadTableOptions } from './read-table.js';
 export {
   mapColumns,

@@ -1,4 +1,4 @@
-// Table + the user's column mapping → one MappedDocument per non-empty text cell (DESIGN §3).
+// Table + the user's column mapping → one MappedDocument per non-empty text cell (docs/design.md §3).
 //
 // Several text columns give several documents per row, each with `question` = its column name.
 // The whole table is checked before anything is returned, so a bad row never leaves half a

@@ -1,4 +1,4 @@
-// A researcher's glossary as a table: one row per concept, one column per language (DESIGN §3).
+// A researcher's glossary as a table: one row per concept, one column per language (docs/design.md §3).
 // Each header names a language of the study (a tag such as `es` or a name such as `Español`,
 // as normalizeLanguageTag reads them); a cell may hold several synonyms separated by ";", "/"
 // or a line break (spreadsheets' Alt+Enter), common practice in term lists.

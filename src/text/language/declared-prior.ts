@@ -1,4 +1,4 @@
-// A declared (questionnaire) language as a prior, not the truth (DESIGN §5). People sometimes
+// A declared (questionnaire) language as a prior, not the truth (docs/design.md §5). People sometimes
 // answer in another language than the questionnaire's, so the declaration is evidence about the
 // written language, combined with the text's own by Bayes' rule:
 //   p(ℓ | text, declared d) ∝ p(text | ℓ) · π_d(ℓ),  π_d(d) = m,  π_d(ℓ ≠ d) = (1 − m)/(n − 1)

@@ -1,4 +1,4 @@
-// The first two steps of language identification for one text (DESIGN §5): the script narrows
+// The first two steps of language identification for one text (docs/design.md §5): the script narrows
 // the candidates among the study's languages (often to one), then franc's trigram profile picks
 // among what is left.
 import { removeInvisibles } from '../tokens/invisible.js';

@@ -1,4 +1,4 @@
-// Language identification for a study (DESIGN §5): script first, then trigram detection
+// Language identification for a study (docs/design.md §5): script first, then trigram detection
 // restricted to the study's languages (first-pass.ts), then a study-adaptive pass: a naive Bayes
 // model learned from the study's own confident documents (adaptive.ts) re-decides the short and
 // uncertain ones, and overrules the trigram profile where the study's usage is clearly against it.

@@ -2,7 +2,7 @@
 // (":D", "xD", "<3"), single letters, and the interjections that survey answers share
 // across the languages written in Latin script ("ok", "lol", "haha", "hmm"). Such an answer is
 // neutral: without a declared language it stays undetermined and is listed, never forced into
-// a language by a trigram profile that must pick something (DESIGN §5).
+// a language by a trigram profile that must pick something (docs/design.md §5).
 //
 // A whole text is neutral when every one of its space-separated pieces is. Names and brands
 // spelled the same in several languages ("Netflix", "pizza", "DVD") cannot be told by their form

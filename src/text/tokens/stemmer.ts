@@ -1,4 +1,4 @@
-// Stemming per language (DESIGN §5): the Snowball algorithms (Porter 2001, "Snowball: A language
+// Stemming per language (docs/design.md §5): the Snowball algorithms (Porter 2001, "Snowball: A language
 // for stemming algorithms", snowball.tartarus.org) via snowball-stemmers 0.6.0, and for English
 // the original Porter algorithm (Porter 1980, "An algorithm for suffix stripping", Program 14(3))
 // via the stemmer package 2.0.1. Optional diacritic folding after stemming, so "café"/"cafe"

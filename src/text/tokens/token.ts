@@ -20,7 +20,7 @@ export interface Token {
   readonly normal: string;
 }
 
-/** Which kinds to keep besides words (all false by default: DESIGN §5 drops them). */
+/** Which kinds to keep besides words (all false by default: docs/design.md §5 drops them). */
 export interface TokenizeOptions {
   keepNumbers?: boolean;
   keepUrls?: boolean;

@@ -1,4 +1,4 @@
-// Cutting a text into tokens (DESIGN §5). Scripts written without spaces (Chinese, Japanese,
+// Cutting a text into tokens (docs/design.md §5). Scripts written without spaces (Chinese, Japanese,
 // Thai, Khmer, Lao, Myanmar) are segmented with Intl.Segmenter (ICU's dictionary-based word
 // break, Unicode Standard Annex #29 "Unicode Text Segmentation" §4 with dictionary extensions);
 // everything else is split on white space, and any chunk that is not a plain word goes to

@@ -1,4 +1,4 @@
-// Encoding new text with an existing vocabulary (for Apply and held-out fold-in, DESIGN §4):
+// Encoding new text with an existing vocabulary (for Apply and held-out fold-in, docs/design.md §4):
 // the same tokens, stop words and stems as prepareText, adjacent pairs joined where the
 // vocabulary has their collocation, unknown stems skipped and counted.
 import { languageKey } from '../language/languages.js';

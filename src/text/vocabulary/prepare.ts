@@ -1,4 +1,4 @@
-// From decided documents to per-language vocabularies and token-id arrays (DESIGN §3, §5):
+// From decided documents to per-language vocabularies and token-id arrays (docs/design.md §3, §5):
 // non-answers and undetermined documents set aside with their reason, tokens cut, stop words
 // removed, words stemmed, optional collocations joined, rare and ubiquitous stems pruned, short
 // documents excluded. Word ids are ordered by frequency (id 0 is a language's most frequent stem).
@@ -35,7 +35,7 @@ interface LanguageState {
 
 /**
  * Prepare the text of a whole study. `docs[i].language` is a BCP 47 subtag or null (undetermined).
- * A `reference` document (a glossary term list, DESIGN §3) is cut, stopped and stemmed like an
+ * A `reference` document (a glossary term list, docs/design.md §3) is cut, stopped and stemmed like an
  * answer and gets the same word ids, but it neither counts towards the vocabulary (pruning,
  * surface forms, collocations) nor is judged a non-answer: the answers alone decide the
  * vocabulary, and a reference word no answer uses is dropped.
@@ -192,7 +192,7 @@ function buildVocabulary(
   settings: PipelineSettings,
   reference: Uint8Array,
 ): LanguageVocabulary {
-  // Most frequent surface form per stem (DESIGN §5: every stem shown by its commonest word).
+  // Most frequent surface form per stem (docs/design.md §5: every stem shown by its commonest word).
   const stems = state.stems.slice();
   const surfaces: string[] = new Array(stems.length).fill('');
   const best = new Float64Array(stems.length);

@@ -1,4 +1,4 @@
-// Default settings of the text pipeline (DESIGN §5). Every value is common practice for short
+// Default settings of the text pipeline (docs/design.md §5). Every value is common practice for short
 // survey answers, not taken from a paper; each is a setting the researcher can change.
 import type { PipelineSettings } from '../types.js';
 
@@ -10,7 +10,7 @@ export function defaultPipelineSettings(): PipelineSettings {
     minCount: 2,
     // A stem in more than half of a language's answers is usually the question's own wording.
     maxDocShare: 0.5,
-    // Collocations are optional (DESIGN §5): off until the researcher asks for them.
+    // Collocations are optional (docs/design.md §5): off until the researcher asks for them.
     collocationNpmi: null,
     collocationMinCount: 5,
     extraStopWords: {},

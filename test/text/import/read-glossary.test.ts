@@ -1,4 +1,4 @@
-// Reading a glossary table (DESIGN §3): headers are languages of the study, cells hold synonyms.
+// Reading a glossary table (docs/design.md §3): headers are languages of the study, cells hold synonyms.
 import { describe, expect, it } from 'vitest';
 import { readGlossaryTable, splitSynonyms } from '../../../src/text/import/index.js';
 import { InputError, type Table } from '../../../src/text/types.js';
