@@ -7,6 +7,8 @@ export interface BenchOptions {
   quick: boolean;
   full: boolean;
   json: boolean;
+  /** Answers of the `--full` case (default 1,000,000; try 20,000 to check it works). */
+  answers: number;
   /** Write human-readable lines here (stderr when --json so stdout ends with the JSON line). */
   log: (line: string) => void;
 }
@@ -27,9 +29,15 @@ const program = new Command()
   .option('--quick', 'a smaller run (under two minutes)', false)
   .option('--full', 'add the end-to-end million-answer case', false)
   .option('--json', 'print one JSON object with every figure on the last line', false)
+  .option('--answers <n>', 'answers of the --full case', '1000000')
   .parse(process.argv);
 
-const opts = program.opts<{ only?: string; quick: boolean; full: boolean; json: boolean }>();
+const opts = program.opts<{ only?: string; quick: boolean; full: boolean; json: boolean; answers: string }>();
+const answers = Number(opts.answers);
+if (!Number.isInteger(answers) || answers < 1000) {
+  console.error(`--answers must be a whole number of at least 1000 (got "${opts.answers}").`);
+  process.exit(2);
+}
 const chosen = opts.only ? opts.only.split(',').map((s) => s.trim()) : ['sampler', 'import'];
 const unknown = chosen.filter((name) => !(name in sections));
 if (unknown.length > 0) {
@@ -41,7 +49,7 @@ const results: Record<string, unknown> = {};
 for (const name of chosen) {
   log(`\n== ${name} ==`);
   const run = await sections[name]();
-  results[name] = await run({ quick: opts.quick, full: opts.full, json: opts.json, log });
+  results[name] = await run({ quick: opts.quick, full: opts.full, json: opts.json, answers, log });
 }
 if (opts.json) {
   // With a single section, its figures are the top-level object (the sampler section's keys are

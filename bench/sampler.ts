@@ -101,6 +101,6 @@ export async function runBench(options: BenchOptions): Promise<Record<string, un
   log('per CPU second (single-threaded loops; robust when other programs share the cores):');
   rows.forEach((r) => log(`K=${r.K}: floor ${(r.floorCpu / 1e6).toFixed(2)} M, reference ${(r.referenceCpu / 1e6).toFixed(2)} M, fast1 ${(r.fast1Cpu / 1e6).toFixed(2)} M tokens/CPU-s; fast/ref ${(r.fast1Cpu / r.referenceCpu).toFixed(2)}, fast/floor ${(r.fast1Cpu / r.floorCpu).toFixed(2)}`));
   log(`peak RSS: ${(result.peakRssMB as number).toFixed(0)} MB`);
-  if (options.full) result.full = await runFullCase(log);
+  if (options.full) result.full = await runFullCase(log, options.answers);
   return result;
 }

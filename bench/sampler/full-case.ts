@@ -52,14 +52,14 @@ export async function runFullCase(log: (line: string) => void, answers = 1_000_0
         const sweep = (p as { sweep?: number }).sweep ?? 0;
         if (sweep >= last + 50) {
           last = sweep;
-          log(`full: sweep ${sweep}/500, ${((performance.now() - t) / 1000).toFixed(0)} s`);
+          log(`full: sweep ${sweep}/${run.settings.sweeps}, ${((performance.now() - t) / 1000).toFixed(0)} s`);
         }
       },
     });
     const fitSeconds = (performance.now() - t) / 1000;
     const total = generateSeconds + importSeconds + fitSeconds;
     const peakRssMB = process.resourceUsage().maxRSS / 1024;
-    log(`full: fit K=50, 500 sweeps, ${threads} threads in ${fitSeconds.toFixed(1)} s; import + fit ${(importSeconds + fitSeconds).toFixed(1)} s; peak RSS ${peakRssMB.toFixed(0)} MB`);
+    log(`full: fit K=50, ${run.settings.sweeps} sweeps, ${threads} threads in ${fitSeconds.toFixed(1)} s; import + fit ${(importSeconds + fitSeconds).toFixed(1)} s; peak RSS ${peakRssMB.toFixed(0)} MB`);
     return {
       answers,
       documents,
