@@ -124,9 +124,16 @@ export function encodeCovariates(row: Record<string, CovariateValue>, encoding: 
   return out;
 }
 
-/** Features with deduplicated patterns from one covariate row per group. */
-export function buildGroupFeatures(rows: readonly Record<string, CovariateValue>[], specs: readonly CovariateSpec[]): GroupFeatures {
-  const encoding = learnEncoding(rows, specs);
+/**
+ * Features with deduplicated patterns from one covariate row per group. `learnFrom` marks the
+ * rows the encoding is learned from (default all): groups that are not answers (glossary rows,
+ * words spelled alike) have no covariates and must not add a "(missing)" level that would become
+ * the reference; their rows encode with the answers' encoding, so a level it lacks gets the
+ * reference level's features and a missing number the mean.
+ */
+export function buildGroupFeatures(rows: readonly Record<string, CovariateValue>[], specs: readonly CovariateSpec[], learnFrom?: readonly boolean[]): GroupFeatures {
+  const taught = learnFrom ? rows.filter((_, g) => learnFrom[g]) : rows;
+  const encoding = learnEncoding(taught.length > 0 ? taught : rows, specs);
   const F = encoding.names.length;
   const x = new Float64Array(F);
   const index = new Map<string, number>();

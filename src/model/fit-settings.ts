@@ -38,6 +38,8 @@ export interface FitSettings {
   initialization: 'sequential' | 'random';
   /** Sweeps of the warm start on multilingual link groups (see initialize.ts). */
   warmStartSweeps: number;
+  /** Only link groups below this index seed the warm start (null: all); later ones are extra links. */
+  seedGroupLimit: number | null;
   /**
    * Start search (start-search.ts): this many independent short chains, each improved by
    * merge–split perturbations, and the most probable becomes the start. 0 = off (the default,
@@ -74,6 +76,7 @@ export const DEFAULT_FIT_SETTINGS: Omit<FitSettings, 'K'> = {
   optimizeLambda: true,
   initialization: 'sequential',
   warmStartSweeps: 50,
+  seedGroupLimit: null,
   startChains: 0,
   startSweeps: 100,
   startPerturbations: 4,

@@ -114,7 +114,7 @@ export async function fitModel(
       z =
         s.initialization === 'random'
           ? randomAssignments(corpus, K, rng)
-          : await initialAssignments(corpus, initPriors, rng, s.samplerFactory, s.warmStartSweeps);
+          : await initialAssignments(corpus, initPriors, rng, s.samplerFactory, s.warmStartSweeps, s.seedGroupLimit ?? corpus.numGroups);
     }
     trace = [];
     phiSum = new Float64Array(rows * K);

@@ -14,7 +14,9 @@
 //      without the rich-get-richer lock-in of a fully sequential pass, which on the bars
 //      example of that paper merged two bars into one topic in our tests.
 // Without multilingual link groups there is nothing to pair and assignments are uniformly
-// random (common practice).
+// random (common practice). Groups added only to tie words across languages (one-word documents
+// of words spelled alike, after the answers' groups) do not seed the warm start: single words
+// carry no co-occurrence, and on the demo study the warm start on them scrambled the themes.
 import type { Corpus, Priors, Rng, SamplerFactory } from './types.js';
 
 /** Groups whose documents are in at least two languages. */
@@ -77,6 +79,8 @@ export async function initialAssignments(
   rng: Rng,
   factory: SamplerFactory,
   warmStartSweeps: number,
+  /** Only groups below this index may seed the warm start (later ones are extra links). */
+  seedGroupLimit = corpus.numGroups,
 ): Promise<Uint16Array> {
   const K = priors.K;
   const L = corpus.languages.length;
@@ -85,7 +89,7 @@ export async function initialAssignments(
   const assigned = new Uint8Array(corpus.numGroups);
   const nkw = new Int32Array(corpus.wordBase[L] * K);
   const nk = new Int32Array(L * K);
-  const linked = L > 1 && warmStartSweeps > 0 ? multilingualGroups(corpus) : [];
+  const linked = L > 1 && warmStartSweeps > 0 ? multilingualGroups(corpus).filter((g) => g < seedGroupLimit) : [];
   if (linked.length > 0) {
     const { sub, tokenMap } = subCorpus(corpus, linked);
     const subZ = new Uint16Array(sub.words.length);

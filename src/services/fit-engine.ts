@@ -24,6 +24,8 @@ export interface EngineSettings {
   checkpointEvery: number;
   /** On one thread: the fast exact sampler (default) or the reference one. */
   sampler?: 'fast' | 'reference';
+  /** The answers' link groups come first; later groups only tie words (see withoutExtraGroups). */
+  answerGroups?: number;
 }
 
 export interface SweepReport {
@@ -97,6 +99,7 @@ export async function fitCorpus(corpus: Corpus, features: GroupFeatures | null, 
       keepThetaSamples: settings.maxSamples,
       checkpointEvery: settings.checkpointEvery,
       samplerFactory: samplerFor(settings.threads, settings.sampler),
+      seedGroupLimit: settings.answerGroups ?? null,
     },
     {
       onSweep: (p) => hooks.onSweep?.({ sweep: p.sweep, sweeps: p.sweeps, tokensPerSecond: p.tokensPerSecond, logLikelihoodPerToken: p.logLikelihoodPerToken, secondsLeft: p.eta }),
@@ -124,5 +127,22 @@ export async function fitCorpus(corpus: Corpus, features: GroupFeatures | null, 
     tokens: d.tokens,
     tokensPerSecond: d.tokensPerSecond,
     sampler: d.sampler,
+  };
+}
+
+/**
+ * The output restricted to the first `groups` link groups (and their `tokens`): the fit may add groups after the
+ * answers' own (words spelled the same in several languages, fit-job.ts) that tie the languages'
+ * topics but are not answers, so their mixtures are not kept.
+ */
+export function withoutExtraGroups(out: FitOutput, groups: number, tokens: number): FitOutput {
+  if (out.groupPattern.length === groups) return out;
+  const K = out.K;
+  return {
+    ...out,
+    thetaGroups: out.thetaGroups.slice(0, groups * K),
+    thetaSamples: out.thetaSamples.map((t) => t.slice(0, groups * K)),
+    groupPattern: out.groupPattern.slice(0, groups),
+    tokens,
   };
 }

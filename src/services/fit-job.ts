@@ -21,8 +21,8 @@ import {
   type RunProgress,
   type Store,
 } from '../store/index.js';
-import { InputError } from '../text/index.js';
-import { fitCorpus } from './fit-engine.js';
+import { InputError, sharedSpellings } from '../text/index.js';
+import { fitCorpus, withoutExtraGroups } from './fit-engine.js';
 import { fittedRunModel, storeFittedRun, type FitDiagnostics } from './fit-results.js';
 import { modelSettingsOf } from './run-settings-schema.js';
 import { computeRunSummaries } from './run-summaries.js';
@@ -68,9 +68,9 @@ export async function runFitJob(options: FitJobOptions): Promise<FitJobOutcome> 
     const after = estimateAfterSampling(store, run, prepared);
     report({ phase: 'starting', sweep: fromSweep, sweeps: m.sweeps });
     const out = await fitCorpus(
-      prepared.corpus,
-      prepared.features,
-      { K: m.K, sweeps: m.sweeps, burnIn: m.burnIn, seed: m.seed, threads: m.threads, sampleEvery: m.sampleEvery, maxSamples: m.keepThetaSamples, checkpointEvery: m.checkpointEvery, sampler: m.sampler },
+      prepared.fitCorpus,
+      prepared.fitFeatures,
+      { K: m.K, sweeps: m.sweeps, burnIn: m.burnIn, seed: m.seed, threads: m.threads, sampleEvery: m.sampleEvery, maxSamples: m.keepThetaSamples, checkpointEvery: m.checkpointEvery, sampler: m.sampler, answerGroups: prepared.corpus.numGroups },
       {
         // Time left covers what follows the sweeps too, estimated from one sweep's time (fit-time.ts).
         onSweep: (r) => report({ phase: 'sampling', ...r, secondsLeft: r.secondsLeft + after.totalSeconds }),
@@ -87,11 +87,12 @@ export async function runFitJob(options: FitJobOptions): Promise<FitJobOutcome> 
       },
     );
     if (out.stopped) return { stopped: true, diagnostics: null };
-    const model = fittedRunModel(run, prepared, out);
+    const fitted = withoutExtraGroups(out, prepared.corpus.numGroups, prepared.corpus.words.length);
+    const model = fittedRunModel(run, prepared, fitted);
     const summaries = summarise(store, model, after, out.sweepsDone, options, report);
     if (summaries.stopped) return { stopped: true, diagnostics: null };
     report({ phase: 'storing results', sweep: out.sweepsDone, sweeps: m.sweeps, secondsLeft: after.storingSeconds });
-    storeFittedRun(store, run, prepared, out, model.diagnostics, summaries.entries);
+    storeFittedRun(store, run, prepared, fitted, model.diagnostics, summaries.entries);
     report({ phase: 'finished', sweep: out.sweepsDone, sweeps: m.sweeps, logLikelihoodPerToken: model.diagnostics.logLikelihoodPerToken, secondsLeft: 0 });
     return { stopped: false, diagnostics: model.diagnostics };
   } finally {
@@ -128,6 +129,16 @@ export interface PreparedCorpus {
   vocabularies: { stems: string[]; surfaces: string[] }[];
   /** Covariate features per link group (first member's covariates), or null without covariates. */
   features: GroupFeatures | null;
+  /**
+   * What is fitted: the corpus above followed by the link groups of words spelled the same in
+   * several languages (shared-spellings.ts in src/text/vocabulary), and their features. The first
+   * documents and groups are those of `corpus`, so results keep only those.
+   */
+  fitCorpus: ReturnType<typeof buildCorpus>['corpus'];
+  fitFeatures: GroupFeatures | null;
+  /** Shared spellings linked, and the one-word documents made of them. */
+  sharedSpellings: number;
+  spellingDocuments: number;
 }
 
 /** The study's included documents as a corpus, minus a seeded held-out share of link groups. */
@@ -142,16 +153,39 @@ export function prepareCorpus(store: Store, run: Run): PreparedCorpus {
   const train = docs.filter((_, i) => held[i] === 0);
   if (train.length === 0) throw new InputError('Every answer was held out; lower the held-out share.');
   const langIndex = new Map(languages.map((l, i) => [l, i]));
-  const built = buildCorpus({
-    languages,
-    vocabSizes: vocabularies.map((v) => v.stems.length),
-    documents: train.map((d) => ({ language: langIndex.get(d.language)!, tokens: d.tokens, linkKey: d.linkKey })),
-  });
+  const vocabSizes = vocabularies.map((v) => v.stems.length);
+  const documents = train.map((d) => ({ language: langIndex.get(d.language)!, tokens: d.tokens, linkKey: d.linkKey }));
+  const built = buildCorpus({ languages, vocabSizes, documents });
   const documentIds = Int32Array.from(built.docOrder, (i) => train[i].id);
   const heldOutIds = Int32Array.from(docs.filter((_, i) => held[i] === 1).map((d) => d.id));
   const specs = covariateSpecs(store, run);
-  const features = specs.length ? buildGroupFeatures(Array.from(built.groupFirstInput, (i) => train[i].covariates), specs) : null;
-  return { corpus: built.corpus, languages, documentIds, heldOutIds, vocabularies: vocabularies.map((v) => ({ stems: v.stems, surfaces: v.surfaces })), features };
+  const answerGroup = (i: number) => i < train.length && !train[i].glossary;
+  const features = specs.length ? buildGroupFeatures(Array.from(built.groupFirstInput, (i) => train[i].covariates), specs, Array.from(built.groupFirstInput, answerGroup)) : null;
+  // Words spelled the same in several languages tie them (shared-spellings.ts); counted in the
+  // training answers only (glossary terms are links already).
+  const counts = vocabularies.map((v) => new Int32Array(v.stems.length));
+  for (const d of train) if (!d.glossary) for (const t of d.tokens) counts[langIndex.get(d.language)!][t]++;
+  const shared = sharedSpellings(vocabularies.map((v) => v.surfaces), counts);
+  const extra = shared.flatMap((sp) =>
+    Array.from({ length: sp.repeats }, (_, r) => sp.members.map((m) => ({ language: m.language, tokens: Int32Array.of(m.word), linkKey: `\u0000spelling:${sp.spelling}:${r}` }))).flat(),
+  );
+  const fit = extra.length > 0 ? buildCorpus({ languages, vocabSizes, documents: [...documents, ...extra] }) : built;
+  const fitFeatures =
+    extra.length > 0 && specs.length
+      ? buildGroupFeatures(Array.from(fit.groupFirstInput, (i) => (i < train.length ? train[i].covariates : {})), specs, Array.from(fit.groupFirstInput, answerGroup))
+      : features;
+  return {
+    corpus: built.corpus,
+    languages,
+    documentIds,
+    heldOutIds,
+    vocabularies: vocabularies.map((v) => ({ stems: v.stems, surfaces: v.surfaces })),
+    features,
+    fitCorpus: fit.corpus,
+    fitFeatures,
+    sharedSpellings: shared.length,
+    spellingDocuments: extra.length,
+  };
 }
 
 /** Covariates of the run with their types (numeric when every observed value is a number). */

@@ -5,3 +5,5 @@ export { defaultPipelineSettings } from './settings.js';
 export { createEncoder } from './encode.js';
 export type { EncodedText } from './encode.js';
 export { findCollocations, joinCollocations, GAP } from './collocations.js';
+export { foldSpelling, sharedSpellings } from './shared-spellings.js';
+export type { SharedSpelling, SharedSpellingOptions } from './shared-spellings.js';
