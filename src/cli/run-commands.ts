@@ -22,17 +22,20 @@ import {
   requireStudy,
   runContrasts,
   SHARES_HEADER,
+  csvBytes,
+  round6,
+  toCsv,
+  exportFiles,
+  exportTables,
+  exportWorkbook,
+  describeCovariateNote,
   type FitDiagnostics,
   type RunModel,
 } from '../services/index.js';
-import { csvBytes, round6, toCsv } from '../services/csv.js';
 import { runFitInProcess } from '../jobs/index.js';
 import { getRun, getRunByName, getStudy, interruptIfAbandoned, type Run, type RunProgress, type Store } from '../store/index.js';
 import { InputError } from '../text/index.js';
 import { scannerFromSetting, scanUpload } from '../platform/index.js';
-import { exportFiles, exportTables } from '../services/export-run.js';
-import { exportWorkbook } from '../services/export-workbook.js';
-import { describeCovariateNote } from '../services/apply-covariates.js';
 import { removalOptions, reportRemoval } from './study-commands.js';
 import { collect, mappingFromFlags, mappingOptions, parseNumber, readInputFile, type CliContext, type MappingFlags } from './context.js';
 

@@ -5,9 +5,9 @@ export { openStore, inTransaction, withBusyRetry, isBusyError, DATABASE_FILE, ty
 export { eraseInTransaction, vacuumStore, type EraseOutcome } from './erase.js';
 export { migrate, schemaVersion, SCHEMA_VERSION, MIGRATIONS, type Migration } from './migrations.js';
 export { createStudy, getStudy, getStudyByName, listStudies, updateStudy, touchStudy, deleteStudy, studyContents, type Study, type StudyListItem, type StudyContents } from './studies.js';
-export { linkSummary, glossaryDocumentIds, type LinkSummary } from './links.js';
 export { insertImport, setImportSummary, listImports, getImport, getImportBytes, sha256Hex, deleteImport, importDocumentIds, type ImportRecord, type ImportKind } from './imports.js';
 export { glossaryCounts, type GlossaryCounts } from './glossaries.js';
+export { linkSummary, glossaryDocumentIds, type LinkSummary } from './links.js';
 export {
   insertDocuments,
   setDocumentTokens,
