@@ -324,8 +324,8 @@ describe('the source itself (ASVS V5.2.4, V5.2.6, V5.3.8, V8.2.2, V14.2)', () =>
     // The one child process runs the scanner command the server's operator configured (V12.4.2),
     // as an argument array without a shell; nothing a user sends becomes an argument.
     const processes = sources.filter(({ text }) => /node:child_process|['"]child_process['"]/.test(text)).map(({ f }) => f.replace(/\\/g, '/'));
-    expect(processes.map((f) => f.slice(f.indexOf('src/')))).toEqual(['src/services/scan-upload.ts']);
-    const scanner = sources.find(({ f }) => f.replace(/\\/g, '/').endsWith('src/services/scan-upload.ts'))!.text;
+    expect(processes.map((f) => f.slice(f.indexOf('src/')))).toEqual(['src/platform/scan-upload.ts']);
+    const scanner = sources.find(({ f }) => f.replace(/\\/g, '/').endsWith('src/platform/scan-upload.ts'))!.text;
     expect(scanner).toMatch(/spawn\(.*shell: false/);
     expect(scanner).not.toMatch(/\bexec(Sync|File|FileSync)?\s*\(/);
   });
