@@ -24,25 +24,63 @@ export function contrastCovariates(store: Store, studyId: number): string[] {
 /** Most θ values held in memory for the draws (≈40 MB of float32; common practice). */
 const MAX_THETA_VALUES = 10_000_000;
 
-export function runContrasts(store: Store, model: RunModel, request: ContrastRequest): ContrastResult {
+/**
+ * What the contrasts of one fitted run read from the study, read once for every covariate asked
+ * for: the answers' weights and levels, the glossary documents that were fitted, and the
+ * posterior mixture samples per answer. A run's summaries compare groups by several covariates;
+ * reading the answers once instead of once per covariate keeps the summaries off the critical
+ * path at a million answers (issue 15).
+ */
+export interface ContrastData {
+  readonly known: readonly string[];
+  readonly weights: Float64Array;
+  readonly values: ReadonlyMap<string, readonly (string | number | null)[]>;
+  readonly glossaryDocs: number;
+  readonly samples: readonly Float32Array[];
+}
+
+export function contrastData(store: Store, model: RunModel, covariates?: readonly string[]): ContrastData {
   const known = contrastCovariates(store, model.run.studyId);
-  if (!known.includes(request.by)) throw new InputError(`There is no covariate "${request.by}" in this study. Choose one of: ${known.join(', ')}.`);
+  const names = covariates ?? known;
+  for (const by of names) if (!known.includes(by)) throw new InputError(`There is no covariate "${by}" in this study. Choose one of: ${known.join(', ')}.`);
   const { K } = model;
   const D = model.documentIds.length;
   const index = new Map<number, number>();
   model.documentIds.forEach((id, d) => index.set(id, d));
   const weights = new Float64Array(D).fill(1);
-  const raw: (string | number | null)[] = new Array(D).fill(null);
+  const values = new Map(names.map((by) => [by, new Array<string | number | null>(D).fill(null)]));
   for (const doc of iterateDocuments(store, model.run.studyId, { excluded: false })) {
     const d = index.get(doc.id);
     if (d === undefined) continue;
     weights[d] = doc.weight;
-    raw[d] = request.by === 'language' ? doc.language : request.by === 'question' ? doc.question : (doc.covariates[request.by] ?? null);
+    for (const [by, raw] of values) raw[d] = by === 'language' ? doc.language : by === 'question' ? doc.question : (doc.covariates[by] ?? null);
   }
   // A glossary's term lists were fitted (they tie the languages together) but are no answers:
   // they have no level, and are not reported as answers left out either.
   let glossaryDocs = 0;
   for (const doc of iterateDocuments(store, model.run.studyId, { kind: 'glossary' })) if (index.has(doc.id)) glossaryDocs++;
+  const S = Math.max(1, Math.min(model.thetaSamples.length, Math.floor(MAX_THETA_VALUES / Math.max(1, D * K))));
+  const sources = model.thetaSamples.length ? model.thetaSamples.slice(-S) : [Float32Array.from(model.thetaGroups)];
+  const samples = sources.map((groups) => {
+    const out = new Float32Array(D * K);
+    for (let d = 0; d < D; d++) out.set(groups.subarray(model.docGroup[d] * K, model.docGroup[d] * K + K), d * K);
+    return out;
+  });
+  return { known, weights, values, glossaryDocs, samples };
+}
+
+export function runContrasts(store: Store, model: RunModel, request: ContrastRequest): ContrastResult {
+  return contrastsFromData(model, contrastData(store, model, [request.by]), request);
+}
+
+/** The contrasts by one covariate, from data read by contrastData (which must include it). */
+export function contrastsFromData(model: RunModel, data: ContrastData, request: ContrastRequest): ContrastResult {
+  const source = data.values.get(request.by);
+  if (!source) throw new InputError(`There is no covariate "${request.by}" in this study. Choose one of: ${data.known.join(', ')}.`);
+  const { K } = model;
+  const D = model.documentIds.length;
+  const { weights, glossaryDocs, samples } = data;
+  const raw = source.slice();
   // Linked answers (translations, paired texts) are one respondent with one mixture: count each
   // link group once per level, by its first answer (and that answer's weight), so a translated
   // answer does not double its respondent's weight; members in different levels (e.g. by
@@ -58,13 +96,6 @@ export function runContrasts(store: Store, model: RunModel, request: ContrastReq
     } else seen.add(key);
   }
   const numeric = raw.every((v) => v === null || typeof v === 'number') && raw.some((v) => v !== null) && request.by !== 'language' && request.by !== 'question';
-  const S = Math.max(1, Math.min(model.thetaSamples.length, Math.floor(MAX_THETA_VALUES / Math.max(1, D * K))));
-  const sources = model.thetaSamples.length ? model.thetaSamples.slice(-S) : [Float32Array.from(model.thetaGroups)];
-  const samples = sources.map((groups) => {
-    const out = new Float32Array(D * K);
-    for (let d = 0; d < D; d++) out.set(groups.subarray(model.docGroup[d] * K, model.docGroup[d] * K + K), d * K);
-    return out;
-  });
   // Resample a link group's answers together (cluster bootstrap, Davison & Hinkley 1997, §3.8).
   const options = { weights, clusterOfDoc: model.docGroup, draws: request.draws ?? 1000, seed: request.seed ?? 1, themeLabels: model.labels, fdr: request.fdr === undefined ? 0.05 : request.fdr, ...(request.reference ? { reference: request.reference } : {}) };
   // The linked answers set aside above reach the statistics as "left out"; say what they are

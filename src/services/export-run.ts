@@ -1,9 +1,11 @@
 // Export of a finished run (docs/design.md §8): the files people take away, built in memory.
-import { documentTokensByIds, getStudy, getStudyWordLists, iterateDocuments, listImports, loadVocabulary, type Store } from '../store/index.js';
+import { documentTokensByIds, getStudy, getStudyWordLists, iterateDocuments, listImports, loadJsonResult, loadVocabulary, type Store } from '../store/index.js';
 import { answersTable, blankReasonFor, type AnswerRow } from './answers-table.js';
 import { BUNDLE_EXTENSION, BUNDLE_VERSION, encodeBundle, type RunBundle } from './bundle.js';
 import { installationKey } from '../platform/index.js';
-import { SHARES_HEADER, contrastCovariates, runContrasts } from './contrasts.js';
+import type { ContrastResult } from '../stats/index.js';
+import { SHARES_HEADER, contrastCovariates, contrastData, contrastsFromData, type ContrastData } from './contrasts.js';
+import { CONTRAST_DRAWS, contrastKey } from './run-summaries.js';
 import { csvBytes, round6, type CsvCell } from './csv.js';
 import { alphaForCovariates, foldInDocuments } from './fold-in.js';
 import { documentMixtures, overallShares, themeWords, type RunModel } from './run-model.js';
@@ -153,11 +155,17 @@ export function exportTables(store: Store, model: RunModel, options: ExportOptio
   const questions = questionCount(answerRows) > 1;
   const answers = answersTable(answerRows, covariates, model.labels, { idColumn: studyIdColumn(store, model.run.studyId), questions, text: options.answerText ?? true });
   const shareRows: CsvCell[][] = [];
-  for (const by of contrastCovariates(store, model.run.studyId)) {
-    // A study of one text column has one question level: its "group" is every answer.
-    if (by === 'question' && !questions) continue;
-    const res = runContrasts(store, model, { by, draws: options.draws ?? 1000, fdr: null });
-    for (const r of res.shares) shareRows.push([r.covariate, r.level, r.themeLabel, round6(r.share), round6(r.low), round6(r.high), r.n, Math.round(r.effectiveN * 10) / 10]);
+  const draws = options.draws ?? CONTRAST_DRAWS;
+  const names = contrastCovariates(store, model.run.studyId).filter((by) => by !== 'question' || questions);
+  let data: ContrastData | null = null;
+  for (const by of names) {
+    // A study of one text column has one question level (left out above): its "group" is every
+    // answer. The shares stored with the run were drawn with the same draws and seed (the false
+    // discovery setting only touches differences), so they are used as they are; labels are
+    // today's, since a theme may have been renamed since the fit.
+    const stored = draws === CONTRAST_DRAWS ? loadJsonResult<ContrastResult>(store, model.run.id, contrastKey(by)) : undefined;
+    const res = stored ?? contrastsFromData(model, (data ??= contrastData(store, model, names)), { by, draws, fdr: null });
+    for (const r of res.shares) shareRows.push([r.covariate, r.level, model.labels[r.theme] ?? r.themeLabel, round6(r.share), round6(r.low), round6(r.high), r.n, Math.round(r.effectiveN * 10) / 10]);
   }
   const weights = new Map<number, number>();
   for (const d of iterateDocuments(store, model.run.studyId, { excluded: false })) weights.set(d.id, d.weight);

@@ -4,7 +4,7 @@
 // sweeps, off the request path, instead of while someone waits for a page.
 import type { ResultValue, StoredResult, Store } from '../store/index.js';
 import { runChecks } from './checks.js';
-import { contrastCovariates, runContrasts } from './contrasts.js';
+import { contrastCovariates, contrastData, contrastsFromData, type ContrastData } from './contrasts.js';
 import type { RunModel } from './run-model.js';
 
 /** Bootstrap × posterior draws for stored group contrasts (common practice for 95% percentile intervals). */
@@ -34,11 +34,14 @@ export function computeRunSummaries(store: Store, model: RunModel, hooks: Summar
   const entries: Record<string, ResultValue | StoredResult> = {};
   const names = contrastCovariates(store, model.run.studyId);
   const count = names.length + 1;
+  let data: ContrastData | null = null;
   for (let i = 0; i < names.length; i++) {
     if (hooks.shouldStop?.()) return { entries, stopped: true };
     hooks.onStep?.({ label: `comparing groups by ${names[i]}`, index: i, count });
     try {
-      entries[contrastKey(names[i])] = { json: runContrasts(store, model, { by: names[i], draws: CONTRAST_DRAWS }) };
+      // The answers are read once for all covariates (contrasts.ts).
+      data ??= contrastData(store, model, names);
+      entries[contrastKey(names[i])] = { json: contrastsFromData(model, data, { by: names[i], draws: CONTRAST_DRAWS }) };
     } catch {
       // computed on demand instead (see above)
     }

@@ -369,15 +369,37 @@ export function studyChangeStamp(store: Store, studyId: number): string {
   return `${row.n}:${row.m}:${row.u}`;
 }
 
+type CovariateLevels = Record<string, { values: string[]; numeric: boolean; distinct: number }>;
+
+/**
+ * The last computed levels per store, study and maxLevels, with the study's change stamp:
+ * the levels are an aggregate over every answer (seconds at a million answers) and are asked for
+ * by every results page and by each summary of a fit, while they change only with an import or
+ * a deletion — which the stamp sees (answer count, last id, study's update time).
+ */
+const levelsCache = new WeakMap<Store, Map<string, { stamp: string; levels: CovariateLevels }>>();
+
 /** Distinct covariate names and their observed values (up to `maxLevels` per name). */
-export function covariateLevels(store: Store, studyId: number, maxLevels = 200): Record<string, { values: string[]; numeric: boolean; distinct: number }> {
+export function covariateLevels(store: Store, studyId: number, maxLevels = 200): CovariateLevels {
+  const cache = levelsCache.get(store) ?? new Map<string, { stamp: string; levels: CovariateLevels }>();
+  levelsCache.set(store, cache);
+  const key = `${studyId}:${maxLevels}`;
+  const stamp = studyChangeStamp(store, studyId);
+  const hit = cache.get(key);
+  if (hit && hit.stamp === stamp) return structuredClone(hit.levels);
+  const levels = readCovariateLevels(store, studyId, maxLevels);
+  cache.set(key, { stamp, levels: structuredClone(levels) });
+  return levels;
+}
+
+function readCovariateLevels(store: Store, studyId: number, maxLevels: number): CovariateLevels {
   const rows = store.db
     .prepare(
       `SELECT j.key AS name, CAST(j.value AS TEXT) AS value, j.type AS type, COUNT(*) AS n FROM documents d, json_each(d.covariates) j
        WHERE d.study_id = ? AND j.value IS NOT NULL GROUP BY j.key, CAST(j.value AS TEXT) ORDER BY j.key, n DESC`,
     )
     .all(studyId) as { name: string; value: string; type: string; n: number }[];
-  const out: Record<string, { values: string[]; numeric: boolean; distinct: number }> = {};
+  const out: CovariateLevels = {};
   for (const r of rows) {
     const e = (out[r.name] ??= { values: [], numeric: true, distinct: 0 });
     e.distinct++;
