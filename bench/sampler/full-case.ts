@@ -12,7 +12,8 @@ const PART_ANSWERS = 500_000;
 
 export async function runFullCase(log: (line: string) => void, answers = 1_000_000): Promise<Record<string, unknown>> {
   const { generateDemo, demoCsv, DEMO_COLUMNS } = await import('../../demo/index.js');
-  const { importFile, createFitRun, runFitJob } = await import('../../src/services/index.js');
+  const { importFile, createFitRun, runFitJob, estimateFit, describeEstimate, loadRunModel, exportTables } = await import('../../src/services/index.js');
+  const { machineSize } = await import('../../src/platform/index.js');
   const { openStore } = await import('../../src/store/index.js');
   const dir = await mkdtemp(join(tmpdir(), 'themata-bench-'));
   const store = openStore(dir);
@@ -43,23 +44,45 @@ export async function runFullCase(log: (line: string) => void, answers = 1_000_0
     const importSeconds = (performance.now() - t) / 1000;
     log(`full: imported ${documents} documents in ${importSeconds.toFixed(1)} s`);
     t = performance.now();
-    const run = createFitRun(store, studyId, { themes: 50, sweeps: Number(process.env.FULL_SWEEPS ?? 500), seed: 1, threads, holdout: 0 });
+    const request = { themes: 50, sweeps: Number(process.env.FULL_SWEEPS ?? 500), seed: 1, threads, holdout: 0 };
+    const estimate = estimateFit(store, studyId, request, machineSize());
+    log(`full: estimate before the fit: ${describeEstimate(estimate)}`);
+    t = performance.now();
+    const run = createFitRun(store, studyId, request);
     let last = 0;
+    // Wall time per phase (src/services fit-job.ts phases), from the progress a user sees.
+    const phaseSeconds: Record<string, number> = {};
+    let phase = '';
+    let phaseStart = performance.now();
     const outcome = await runFitJob({
       store,
       runId: run.id,
       onProgress: (p) => {
+        const now = performance.now();
+        const next = String(p.phase ?? '');
+        if (next !== phase) {
+          if (phase) phaseSeconds[phase] = (phaseSeconds[phase] ?? 0) + (now - phaseStart) / 1000;
+          phase = next;
+          phaseStart = now;
+        }
         const sweep = (p as { sweep?: number }).sweep ?? 0;
         if (sweep >= last + 50) {
           last = sweep;
-          log(`full: sweep ${sweep}/${run.settings.sweeps}, ${((performance.now() - t) / 1000).toFixed(0)} s`);
+          log(`full: sweep ${sweep}/${run.settings.sweeps}, ${((now - t) / 1000).toFixed(0)} s`);
         }
       },
     });
     const fitSeconds = (performance.now() - t) / 1000;
     const total = generateSeconds + importSeconds + fitSeconds;
     const peakRssMB = process.resourceUsage().maxRSS / 1024;
-    log(`full: fit K=50, ${run.settings.sweeps} sweeps, ${threads} threads in ${fitSeconds.toFixed(1)} s; import + fit ${(importSeconds + fitSeconds).toFixed(1)} s; peak RSS ${peakRssMB.toFixed(0)} MB`);
+    const around = fitSeconds - (phaseSeconds.sampling ?? 0);
+    log(`full: fit K=50, ${run.settings.sweeps} sweeps, ${threads} threads in ${fitSeconds.toFixed(1)} s (estimated ${estimate.seconds.total.toFixed(0)} s); import + fit ${(importSeconds + fitSeconds).toFixed(1)} s; peak RSS ${peakRssMB.toFixed(0)} MB (estimated ${(estimate.peakBytes / 1e6).toFixed(0)} MB)`);
+    log(`full: phases ${Object.entries(phaseSeconds).map(([k, v]) => `${k} ${v.toFixed(1)} s`).join(', ')}; around the sweeps ${around.toFixed(1)} s = ${((100 * around) / fitSeconds).toFixed(1)}% of the fit's wall time (goal < 15%)`);
+    t = performance.now();
+    const model = loadRunModel(store, run.id)!;
+    const tables = exportTables(store, model, { answerText: true });
+    const exportSeconds = (performance.now() - t) / 1000;
+    log(`full: export tables (answers by theme, shares by group, words, codebook) ${exportSeconds.toFixed(1)} s for ${tables.answers.rows.length.toLocaleString('en')} answer rows; peak RSS now ${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MB`);
     return {
       answers,
       documents,
@@ -68,6 +91,11 @@ export async function runFullCase(log: (line: string) => void, answers = 1_000_0
       importSeconds,
       fitSeconds,
       importPlusFitSeconds: importSeconds + fitSeconds,
+      phaseSeconds,
+      aroundSweepsShare: around / fitSeconds,
+      estimatedSeconds: estimate.seconds.total,
+      estimatedPeakMB: estimate.peakBytes / 1e6,
+      exportSeconds,
       totalSeconds: total,
       tokensPerSecond: outcome.diagnostics?.tokensPerSecond ?? null,
       peakRssMB,

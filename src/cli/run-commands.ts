@@ -7,6 +7,8 @@ import {
   buildBundle,
   COVARIATES_SETTING,
   createFitRun,
+  describeEstimate,
+  estimateFit,
   flagHelp,
   installationKey,
   NAME_SETTING,
@@ -35,7 +37,7 @@ import {
 import { runFitInProcess } from '../jobs/index.js';
 import { getRun, getRunByName, getStudy, interruptIfAbandoned, type Run, type RunProgress, type Store } from '../store/index.js';
 import { InputError } from '../text/index.js';
-import { scannerFromSetting, scanUpload } from '../platform/index.js';
+import { machineSize, scannerFromSetting, scanUpload } from '../platform/index.js';
 import { removalOptions, reportRemoval } from './study-commands.js';
 import { collect, mappingFromFlags, mappingOptions, parseNumber, readInputFile, type CliContext, type MappingFlags } from './context.js';
 
@@ -71,6 +73,10 @@ export async function fitInProcess(ctx: CliContext, flags: FitFlags, label = '')
     'flag',
   );
   const run = createFitRun(ctx.openStore(), flags.study, request, { wording: 'flag' });
+  // Said before the sweeps start, so a study too large for this machine is known at once (issue 15).
+  const estimate = estimateFit(ctx.openStore(), run.studyId, request, machineSize());
+  ctx.err(`${label}Estimate: ${describeEstimate(estimate)}`);
+  for (const note of estimate.notes) ctx.err(`${label}${estimate.fits ? 'Note' : 'Warning'}: ${note}`);
   return executeRun(ctx, run, label);
 }
 

@@ -4,3 +4,4 @@
 export { packageTsconfigPath, startTypeScriptWorker, tsxApiUrl } from './typescript-runtime.js';
 export { parseScanCommand, scannerFromSetting, describeScanning, scanUpload, SCAN_TIMEOUT_MS, SCAN_INCOMPLETE, type UploadScanner } from './scan-upload.js';
 export { installationKey, BUNDLE_KEY_FILE } from './bundle-key.js';
+export { machineSize } from './machine-size.js';

@@ -53,3 +53,4 @@ export {
   type ImportRemovalPlan,
   type RemovalOutcome,
 } from './removal.js';
+export { estimateFit, describeEstimate, formatDuration, type FitEstimate, type MachineSize } from './fit-estimate.js';

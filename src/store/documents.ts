@@ -241,6 +241,15 @@ export function listDocumentTexts(store: Store, studyId: number): { ids: Int32Ar
   return { ids, languages, texts, glossary };
 }
 
+/** How much a fit of the study would read: included answers with words, and their words. */
+export function fitInputSize(store: Store, studyId: number): { answers: number; words: number } {
+  // length() of a BLOB reads its size from the record header, not its bytes.
+  const row = store.db
+    .prepare(`SELECT COUNT(*) AS n, COALESCE(SUM(length(tokens)), 0) / 4 AS w FROM documents WHERE study_id = ? AND excluded IS NULL AND vocabulary_language IS NOT NULL AND tokens IS NOT NULL AND length(tokens) > 0`)
+    .get(studyId) as { n: number; w: number };
+  return { answers: row.n, words: row.w };
+}
+
 /** Included documents with tokens, in id order: the input of a fit. */
 export function listDocumentTokens(store: Store, studyId: number): DocumentTokens[] {
   const rows = store.db

@@ -15,6 +15,7 @@ export {
   iterateDocuments,
   getDocument,
   listDocumentTokens,
+  fitInputSize,
   listDocumentTexts,
   overrideLanguages,
   adoptWrittenLanguages,

@@ -59,7 +59,7 @@ describe('themata started from another folder', () => {
     expect(imported.stderr).toBe('');
     expect(imported.status).toBe(0);
     const fit = themata('fit', '--study', 'Elsewhere', '--themes', '3', '--sweeps', '30', '--covariate', 'region', '--name', 'from-cli');
-    expect(fit.stderr).toBe('');
+    expect(fit.stderr).toMatch(/^Estimate: [^\n]+\n(Note: [^\n]+\n)*$/); // said before the sweeps (issue 15)
     expect(fit.status).toBe(0);
     expect(JSON.parse(fit.stdout.trim()).run).toBe('from-cli');
     const exported = themata('export', '--study', 'Elsewhere', '--run', 'from-cli', '--out', 'results');

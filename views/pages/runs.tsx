@@ -4,6 +4,7 @@ import { LineChart } from '../charts/index.js';
 import { count, duration, Notice, when } from '../components.js';
 import { CsrfField, Layout, type PageFrame } from '../layout.js';
 import { TiesNoticeSlot } from '../ties-notice.js';
+import { FitEstimatePanel, type EstimateView } from '../fit-estimate.js';
 
 export interface RunRow {
   readonly id: number;
@@ -84,6 +85,8 @@ export function RunsPage(props: {
   maxThreads: number;
   covariates: readonly { name: string; levels: number; numeric: boolean }[];
   answers: number;
+  /** Time and memory of a fit with the form's default settings. */
+  estimate?: EstimateView | null;
   canEdit: boolean;
   /** The study's owner may delete runs. */
   canDelete?: boolean;
@@ -195,7 +198,7 @@ export function RunsPage(props: {
             {props.answers === 0 ? (
               <Notice kind="error">This study has no answers to fit yet. Import a file with answers on the Data page first, or check the Languages and Vocabulary pages for answers left out.</Notice>
             ) : (
-              <p class="hint">{count(props.answers)} answers will be used.</p>
+              <FitEstimatePanel studyId={props.studyId} estimate={props.estimate ?? null} />
             )}
             <button type="submit" disabled={props.answers === 0}>Start run</button>
           </form>

@@ -3,7 +3,9 @@ import { availableParallelism } from 'node:os';
 import { Hono, type Context } from 'hono';
 import { streamSSE } from 'hono/streaming';
 import { RunPage, RunProgressPanel, RunsPage, type ProgressView } from '../../../views/pages/runs.js';
-import { createFitRun, NUMBER_SETTINGS, readFitRequest, type SettingLimits } from '../../services/index.js';
+import { createFitRun, describeEstimate, estimateFit, NUMBER_SETTINGS, readFitRequest, type FitRequest, type SettingLimits } from '../../services/index.js';
+import { machineSize } from '../../platform/index.js';
+import { FitEstimatePanel, type EstimateView } from '../../../views/fit-estimate.js';
 import { covariateLevels, getRun, languageSummary, listRuns, studyRole, type Run, type Study } from '../../store/index.js';
 import { InputError } from '../../text/index.js';
 import type { JobEvent } from '../../jobs/index.js';
@@ -40,6 +42,19 @@ function settingFields(limits: SettingLimits): Record<string, SettingField> {
     };
   }
   return fields;
+}
+
+/** The estimate of a fit with these settings (fit-estimate.ts in src/services), for the page. */
+function estimateView(c: Context<AppEnv>, study: Study, request: FitRequest): EstimateView {
+  const e = estimateFit(c.get('deps').store, study.id, request, machineSize());
+  return { answers: e.answers, line: describeEstimate(e), notes: e.notes, fits: e.fits };
+}
+
+/** The form's defaults as a fit request: what a run started without changing anything would be. */
+function defaultRequest(fields: Record<string, SettingField>): FitRequest {
+  const raw: Record<string, string> = {};
+  for (const [name, field] of Object.entries(fields)) if (field.value !== undefined) raw[name] = String(field.value);
+  return readFitRequest(raw, 'label', placeLimits());
 }
 
 function canEdit(c: Context<AppEnv>, study: Study): boolean {
@@ -89,6 +104,8 @@ export function runRoutes(): Hono<AppEnv> {
     const levels = covariateLevels(store, study.id, 1);
     const included = languageSummary(store, study.id).reduce((s, r) => s + r.included, 0);
     const limits = placeLimits();
+    const fields = settingFields(limits);
+    const estimate = included > 0 && canEdit(c, study) ? estimateView(c, study, defaultRequest(fields)) : null;
     return renderPage(
       c,
       <RunsPage
@@ -108,7 +125,8 @@ export function runRoutes(): Hono<AppEnv> {
           error: r.error,
           ...summaries.get(r.id),
         }))}
-        fields={settingFields(limits)}
+        fields={fields}
+        estimate={estimate}
         maxThreads={limits.threads!}
         covariates={Object.entries(levels).map(([name, v]) => ({ name, levels: v.distinct, numeric: v.numeric }))}
         answers={included}
@@ -121,6 +139,19 @@ export function runRoutes(): Hono<AppEnv> {
   }
 
   app.get('/studies/:sid/runs', (c) => runsPage(c, studyFor(c)));
+
+  // The Runs form's estimate, for the fields as they are now (sent by htmx when one changes).
+  app.get('/studies/:sid/runs/estimate', (c) => {
+    const study = studyFor(c, 'write');
+    const q = (name: string) => c.req.query(name);
+    try {
+      const request = readFitRequest({ themes: q('themes'), sweeps: q('sweeps'), threads: q('threads'), holdout: q('holdout') }, 'label', placeLimits());
+      return c.html(<FitEstimatePanel studyId={study.id} estimate={estimateView(c, study, request)} />);
+    } catch (error) {
+      if (!(error instanceof InputError)) throw error;
+      return c.html(<FitEstimatePanel studyId={study.id} estimate={null} error={`No estimate yet: ${error.message}`} />);
+    }
+  });
 
   app.post('/studies/:sid/runs', async (c) => {
     const study = studyFor(c, 'write');
