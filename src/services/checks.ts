@@ -56,15 +56,27 @@ interface MappedDoc {
 /** The study's included answers with tokens mapped to the run's vocabulary (by stem). */
 function runDocuments(store: Store, model: RunModel): MappedDoc[] {
   const runIds = model.vocabularies.map((v) => new Map(v.stems.map((s, i) => [s, i])));
-  const current = new Map<string, string[]>();
+  // Per language, the study's word id → the run's (−1 when the run has no such word), or null
+  // when the study's vocabulary is still the run's: then the stored tokens are used as they are,
+  // without a lookup per word (seconds at a million answers).
+  const mappings = new Map<string, Int32Array | null>();
+  const mappingOf = (language: string, l: number): Int32Array | null => {
+    if (mappings.has(language)) return mappings.get(language)!;
+    const stems = loadVocabulary(store, model.run.studyId, language).stems;
+    const runStems = model.vocabularies[l].stems;
+    const same = stems.length === runStems.length && stems.every((s, i) => s === runStems[i]);
+    const mapping = same ? null : Int32Array.from(stems, (s) => runIds[l].get(s) ?? -1);
+    mappings.set(language, mapping);
+    return mapping;
+  };
   const out: MappedDoc[] = [];
   const glossary = glossaryDocumentIds(store, model.run.studyId);
   for (const d of listDocumentTokens(store, model.run.studyId)) {
     const l = model.languages.indexOf(d.language);
     if (l < 0) continue;
-    let stems = current.get(d.language);
-    if (!stems) current.set(d.language, (stems = loadVocabulary(store, model.run.studyId, d.language).stems));
-    out.push({ id: d.id, glossary: glossary.has(d.id), language: l, linkKey: d.linkKey, covariates: d.covariates, tokens: Int32Array.from(d.tokens, (w) => runIds[l].get(stems![w]) ?? -1) });
+    const mapping = mappingOf(d.language, l);
+    const tokens = mapping ? Int32Array.from(d.tokens, (w) => (w >= 0 && w < mapping.length ? mapping[w] : -1)) : d.tokens;
+    out.push({ id: d.id, glossary: glossary.has(d.id), language: l, linkKey: d.linkKey, covariates: d.covariates, tokens });
   }
   return out;
 }
