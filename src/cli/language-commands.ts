@@ -4,10 +4,10 @@
 import { writeFile } from 'node:fs/promises';
 import type { Command } from 'commander';
 import { requireStudy } from '../services/index.js';
-import { csvBytes, toCsv } from '../services/csv.js';
-import { acceptWrittenLanguages, setAnswerLanguages } from '../services/language-review.js';
+import { csvBytes, toCsv } from '../services/index.js';
+import { acceptWrittenLanguages, setAnswerLanguages } from '../services/index.js';
 import { iterateDocuments, type DocumentFilter } from '../store/index.js';
-import { InputError } from '../text/types.js';
+import { InputError } from '../text/index.js';
 import type { CliContext } from './context.js';
 
 interface LanguageFlags {

@@ -3,7 +3,7 @@ import type { Command } from 'commander';
 import { describeStudyContents, formatBytes, importFile, planImportRemoval, planStudyRemoval, removeImport, removeStudy, requireStudy, type ImportSummary, type RemovalOutcome } from '../services/index.js';
 import { scannerFromSetting, scanUpload } from '../platform/index.js';
 import { listImports, topWords, vacuumStore, vocabularySizes, type Store } from '../store/index.js';
-import { normalizeLanguageTag } from '../text/language-tags.js';
+import { normalizeLanguageTag } from '../text/index.js';
 import { InputError } from '../text/index.js';
 import { registerLanguageCommand } from './language-commands.js';
 import { formatCounts, mappingFromFlags, mappingOptions, parseNumber, readInputFile, type CliContext, type MappingFlags } from './context.js';

@@ -11,7 +11,7 @@
 // Chance: with n candidates of which m are partners, in uniformly random order,
 //   P(best partner at rank r) = C(n−r, m−1)/C(n, m), so chance P@1 = m/n and chance
 //   MRR = Σ_r P(r)/r, which for m = 1 is H_n/n (H_n the n-th harmonic number).
-import { Xoshiro128 } from '../model/rng.js';
+import { Xoshiro128 } from '../model/index.js';
 import { jensenShannon } from './divergence.js';
 
 export interface AlignmentInput {

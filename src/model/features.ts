@@ -15,7 +15,7 @@
 //   groups; a missing or non-numeric value gets the mean (0 after standardizing; common practice).
 //   A constant column gives 0 everywhere.
 // - At fold-in, a level never seen while fitting is treated as the baseline (all indicators 0).
-import type { CovariateType } from '../text/types.js';
+import type { CovariateType } from '../text/index.js';
 
 export type CovariateValue = string | number | null | undefined;
 

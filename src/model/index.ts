@@ -15,6 +15,8 @@ export type { CovariateSpec, CovariateValue, FeatureEncoding, GroupFeatures } fr
 export { digamma, hurwitzZeta, logGamma, trigamma } from './special-functions.js';
 export { sampleDirichlet, sampleDiscrete, sampleGamma, sampleNormal } from './random-variates.js';
 export { countsFromAssignments, createReferenceSampler, randomAssignments } from './reference-sampler.js';
+export { createFastSampler } from './fast-sampler.js';
+export { createParallelSampler } from './parallel/index.js';
 export { groupLogLikelihood, logJointLikelihood, logRising, wordLogLikelihood } from './log-likelihood.js';
 export { betaHistogram, optimizeBeta } from './beta-optimizer.js';
 export type { BetaHistogram, BetaEstimateOptions } from './beta-optimizer.js';

@@ -4,7 +4,7 @@ import { Hono } from 'hono';
 import { bodyLimit } from 'hono/body-limit';
 import { HTTPException } from 'hono/http-exception';
 import { ErrorPage } from '../../views/pages/login.js';
-import { InputError } from '../text/types.js';
+import { InputError } from '../text/index.js';
 import { assetRoutes, faviconRoute } from './assets.js';
 import { csrfMiddleware, sessionMiddleware } from './auth.js';
 import { renderPage } from './render.js';

@@ -1,6 +1,6 @@
 // Suggesting what each column of an uploaded table is for, from its name and values. Only a
 // suggestion shown on the mapping step: the researcher confirms or changes every choice.
-import type { ColumnMapping, Table } from '../text/types.js';
+import type { ColumnMapping, Table } from '../text/index.js';
 
 export type ColumnRole = 'ignore' | 'text' | 'id' | 'language' | 'link' | 'categorical' | 'numeric' | 'weight';
 

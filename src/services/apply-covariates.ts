@@ -4,8 +4,8 @@
 // region) has all its indicators 0, so it gets the prior of the reference level (the first level
 // in code-point order); a numeric covariate that is missing gets the fitted mean. Both are
 // reported per covariate (for the page and the command line) and per answer (for the file).
-import type { FeatureEncoding } from '../model/features.js';
-import { MISSING_LEVEL } from '../model/features.js';
+import type { FeatureEncoding } from '../model/index.js';
+import { MISSING_LEVEL } from '../model/index.js';
 
 export interface CovariateNote {
   readonly covariate: string;

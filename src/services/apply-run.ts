@@ -7,9 +7,9 @@
 // of the mapping are used when the new file has them and listed as missing otherwise. Every
 // answer without shares says why, and covariate levels the fit never saw are reported with what
 // their prior was taken from (apply-covariates.ts).
-import type { ColumnMapping, Table } from '../text/types.js';
-import { InputError } from '../text/types.js';
-import { listNames } from '../text/import/input-limits.js';
+import type { ColumnMapping, Table } from '../text/index.js';
+import { InputError } from '../text/index.js';
+import { listNames } from '../text/index.js';
 import { covariateNotes, type CovariateNote } from './apply-covariates.js';
 import { answersTable, blankReasonFor, type AnswerRow } from './answers-table.js';
 import type { RunBundle } from './bundle.js';
@@ -17,7 +17,7 @@ import { csvBytes } from './csv.js';
 import type { ExportedFile } from './export-run.js';
 import { alphaForCovariates, foldInDocuments } from './fold-in.js';
 import { decideLanguages, mapInputColumns, prepareDocuments, readInputTable } from './text-pipeline.js';
-import { createEncoder } from '../text/vocabulary/index.js';
+import { createEncoder } from '../text/index.js';
 
 export interface ApplyOptions {
   bytes: Uint8Array;

@@ -13,9 +13,9 @@
 // refused unless the person says they trust it (`themata apply --trust-bundle`).
 import { createHash, createHmac, timingSafeEqual } from 'node:crypto';
 import { gunzipSync, gzipSync } from 'node:zlib';
-import type { FeatureEncoding } from '../model/features.js';
-import type { ColumnMapping, PipelineSettings } from '../text/types.js';
-import { InputError } from '../text/types.js';
+import type { FeatureEncoding } from '../model/index.js';
+import type { ColumnMapping, PipelineSettings } from '../text/index.js';
+import { InputError } from '../text/index.js';
 
 export const BUNDLE_FORMAT = 'themata-run';
 /** Version of the content (the run's tables). */

@@ -6,8 +6,8 @@
 // members of held-out link groups, each folded in on its own, and the terms of glossary rows
 // (whose documents are fitted, so that figure says how well the glossary held, not a test on
 // unseen text). Glossary documents are kept out of coherence and of the held-out answers.
-import { buildCorpus } from '../model/corpus.js';
-import { Xoshiro128 } from '../model/rng.js';
+import { buildCorpus } from '../model/index.js';
+import { Xoshiro128 } from '../model/index.js';
 import {
   coherenceByLanguage,
   crossLanguageAlignment,

@@ -2,7 +2,7 @@
 // chosen covariate's levels and the survey weights, handed to src/stats.
 import { groupContrasts, type ContrastResult } from '../stats/index.js';
 import { covariateLevels, iterateDocuments, type Store } from '../store/index.js';
-import { InputError } from '../text/types.js';
+import { InputError } from '../text/index.js';
 import type { RunModel } from './run-model.js';
 
 export interface ContrastRequest {

@@ -2,13 +2,13 @@
 // settings to the arrays a run keeps (FitOutput), with checkpoints as bytes. It delegates to the
 // model's fit driver (src/model/fit.ts) and picks the sampler from the thread count; the rest of
 // the services layer (storing, exporting, applying) depends only on FitOutput.
-import { decodeCheckpoint, encodeCheckpoint } from '../model/checkpoint.js';
-import { createFastSampler } from '../model/fast-sampler.js';
-import type { FeatureEncoding, GroupFeatures } from '../model/features.js';
-import { fitModel } from '../model/fit.js';
-import { createParallelSampler } from '../model/parallel/index.js';
-import { createReferenceSampler } from '../model/reference-sampler.js';
-import type { Corpus, SamplerFactory } from '../model/types.js';
+import { decodeCheckpoint, encodeCheckpoint } from '../model/index.js';
+import { createFastSampler } from '../model/index.js';
+import type { FeatureEncoding, GroupFeatures } from '../model/index.js';
+import { fitModel } from '../model/index.js';
+import { createParallelSampler } from '../model/index.js';
+import { createReferenceSampler } from '../model/index.js';
+import type { Corpus, SamplerFactory } from '../model/index.js';
 
 export interface EngineSettings {
   K: number;

@@ -7,8 +7,8 @@
 // Glossary rows as extra bilingual "documents" follow "Polylingual Topic Models" (EMNLP 2009),
 // whose tuples may be any comparable texts; a dictionary row is the shortest such tuple.
 import { getStudy, getStudyByName, glossaryCounts, inTransaction, insertDocuments, insertImport, languageSummary, listImports, setImportSummary, type Store } from '../store/index.js';
-import { readGlossaryTable } from '../text/import/read-glossary.js';
-import { InputError, type TableFormat } from '../text/types.js';
+import { readGlossaryTable } from '../text/index.js';
+import { InputError, type TableFormat } from '../text/index.js';
 import { readInputTable } from './text-pipeline.js';
 import { applyVocabulary, planVocabulary, rebuildVocabulary, studyStamp } from './vocabulary.js';
 

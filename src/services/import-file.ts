@@ -3,7 +3,7 @@
 // and checking happen before anything is written; every write is one transaction, so bad input
 // (an InputError) or a failure half-way leaves the study exactly as it was.
 import { createStudy, exclusionSummary, getStudy, getStudyByName, inTransaction, insertDocuments, insertImport, setImportSummary, updateStudy, type NewDocument, type Store } from '../store/index.js';
-import type { ColumnMapping, EncodingNote, MappedDocument, TableFormat } from '../text/types.js';
+import type { ColumnMapping, EncodingNote, MappedDocument, TableFormat } from '../text/index.js';
 import { DEFAULT_LANGUAGES, InputError, decideLanguages, mapInputColumns, normalizeLanguages, readInputTable, type LanguageOutcome } from './text-pipeline.js';
 import { applyVocabulary, planVocabulary, rebuildVocabulary, studyStamp } from './vocabulary.js';
 

@@ -54,3 +54,6 @@ export {
   type RemovalOutcome,
 } from './removal.js';
 export { estimateFit, describeEstimate, formatDuration, type FitEstimate, type MachineSize } from './fit-estimate.js';
+export { acceptWrittenLanguages, setAnswerLanguages } from './language-review.js';
+export { readInputTable, pipelineSettings } from './text-pipeline.js';
+export { bundleFileName } from './export-run.js';

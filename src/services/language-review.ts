@@ -3,8 +3,8 @@
 // answers or all, or set a language by hand. Answers are named by their row id (the file's id
 // column); every document of that row changes. The vocabulary is rebuilt after a change.
 import { adoptWrittenLanguages, iterateDocuments, languageSummary, overrideLanguages, type Store } from '../store/index.js';
-import { normalizeLanguageTag } from '../text/language-tags.js';
-import { InputError } from '../text/types.js';
+import { normalizeLanguageTag } from '../text/index.js';
+import { InputError } from '../text/index.js';
 import { rebuildVocabulary } from './vocabulary.js';
 
 /** Document ids of the study's answers per row id; an unknown row id is an InputError naming it. */

@@ -32,7 +32,7 @@ import {
   type Study,
   type StudyContents,
 } from '../store/index.js';
-import { InputError } from '../text/types.js';
+import { InputError } from '../text/index.js';
 import { rebuildVocabulary } from './vocabulary.js';
 
 /** What can stop fits running in this process before their runs are deleted (the job queue). */

@@ -2,7 +2,7 @@
 // theme labels, top words per language with probability and exclusivity, document mixtures and
 // overall shares.
 import { getRun, getThemeLabels, loadJsonResult, loadResults, type Run, type Store } from '../store/index.js';
-import type { FeatureEncoding } from '../model/features.js';
+import type { FeatureEncoding } from '../model/index.js';
 import type { FitDiagnostics } from './fit-run.js';
 
 export interface RunModel {

@@ -9,7 +9,7 @@ import {
   prepareText,
   readTable,
 } from '../text/index.js';
-import { InputError, type ColumnMapping, type LanguageDecision, type MappedDocument, type PipelineSettings, type PreparedText, type Table } from '../text/types.js';
+import { InputError, type ColumnMapping, type LanguageDecision, type MappedDocument, type PipelineSettings, type PreparedText, type Table } from '../text/index.js';
 
 export { InputError };
 

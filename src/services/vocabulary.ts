@@ -13,7 +13,7 @@ import {
   touchStudy,
   type Store,
 } from '../store/index.js';
-import type { PreparedText } from '../text/types.js';
+import type { PreparedText } from '../text/index.js';
 import { pipelineSettings, prepareDocuments } from './text-pipeline.js';
 
 export interface VocabularyRebuild {

@@ -1,5 +1,5 @@
 // Bootstrap draws of weighted theme shares per level (see contrasts.ts for the method).
-import type { Xoshiro128 } from '../model/rng.js';
+import type { Xoshiro128 } from '../model/index.js';
 
 /**
  * B draws of each level's weighted mean shares, out[(l·K + k)·B + b].

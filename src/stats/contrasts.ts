@@ -17,7 +17,7 @@
 // Assumptions shown to users (docs/design.md §10): answers are independent; weights are correct.
 // Cost: S·D·K to total the units once, then B·(Σ_ℓ min(n_ℓ, cap))·K for the draws (see
 // bootstrapDraws); resamples are typed-array multiplicities, never objects.
-import { Xoshiro128 } from '../model/rng.js';
+import { Xoshiro128 } from '../model/index.js';
 import { bootstrapDraws } from './bootstrap.js';
 import { quantileBins } from './bins.js';
 import { benjaminiHochberg } from './fdr.js';

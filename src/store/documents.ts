@@ -1,6 +1,6 @@
 // Documents: one text cell each, with its language decision, link key, covariates, weight,
 // exclusion reason and token ids (Int32Array bytes into its language's vocabulary).
-import type { DeclaredCheck, LanguageSource } from '../text/types.js';
+import type { DeclaredCheck, LanguageSource } from '../text/index.js';
 import { int32FromBlob, toBlob } from './blobs.js';
 import { inTransaction, type Store } from './database.js';
 

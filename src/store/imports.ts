@@ -1,7 +1,7 @@
 // Imports keep the uploaded file exactly as it came (bytes + SHA-256) with the mapping used, so
 // nothing a user uploaded is lost or needs uploading again (docs/design.md §3).
 import { createHash } from 'node:crypto';
-import type { ColumnMapping, TableFormat } from '../text/types.js';
+import type { ColumnMapping, TableFormat } from '../text/index.js';
 import { inTransaction, now, type Store } from './database.js';
 
 /** What an import holds: answers, or a glossary (its rows are link groups of tiny documents, never answers). */

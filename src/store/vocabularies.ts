@@ -1,6 +1,6 @@
 // Per-language vocabularies of a study (stem id → stem, most frequent surface form, counts) and
 // the study's own stop-word lists.
-import type { LanguageVocabulary } from '../text/types.js';
+import type { LanguageVocabulary } from '../text/index.js';
 import { inTransaction, type Store } from './database.js';
 
 export interface VocabularyWord {

@@ -4,7 +4,6 @@
 import { readdirSync, readFileSync, statSync } from 'node:fs';
 import { dirname, join, relative, resolve, sep } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { PENDING_DEEP_IMPORTS } from './pending-deep-imports.js';
 
 const root = join(import.meta.dirname, '..', '..');
 const src = join(root, 'src');
@@ -91,7 +90,7 @@ describe('layering (docs/design.md §2)', () => {
     expect(offences).toEqual([]);
   });
 
-  it("imports across folders go through the folder's index.ts (pending ones listed)", () => {
+  it("imports across folders go through the folder's index.ts", () => {
     const found: string[] = [];
     for (const file of sourceFiles(src)) {
       const from = relative(src, file);
@@ -106,6 +105,6 @@ describe('layering (docs/design.md §2)', () => {
         found.push(`${from.split(sep).join('/')}: ${spec}`);
       }
     }
-    expect(found.sort()).toEqual([...PENDING_DEEP_IMPORTS].sort());
+    expect(found.sort()).toEqual([]);
   });
 });

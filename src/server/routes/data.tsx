@@ -2,11 +2,11 @@
 import { Hono, type Context } from 'hono';
 import { HTTPException } from 'hono/http-exception';
 import { DataPage, MappingPage } from '../../../views/pages/data.js';
-import { importFile } from '../../services/import-file.js';
+import { importFile } from '../../services/index.js';
 import { describeScanning, scanUpload } from '../../platform/index.js';
-import { readInputTable } from '../../services/text-pipeline.js';
+import { readInputTable } from '../../services/index.js';
 import { addStudyMember, getAccountByName, listImports, listStudyMembers, studyRole, type Study } from '../../store/index.js';
-import { InputError, type Table } from '../../text/types.js';
+import { InputError, type Table } from '../../text/index.js';
 import { frame, studyFor } from '../access.js';
 import { mappingFromRoles, PROFILE_ROWS, profileColumns, ROLE_LABELS, type ColumnRole } from '../column-roles.js';
 import { renderPage } from '../render.js';

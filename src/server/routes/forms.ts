@@ -1,5 +1,5 @@
 // Reading form fields into plain values, with messages a researcher can act on.
-import { normalizeLanguageTag } from '../../text/language-tags.js';
+import { normalizeLanguageTag } from '../../text/index.js';
 
 type Field = string | File | (string | File)[] | undefined;
 

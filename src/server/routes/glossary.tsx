@@ -3,10 +3,10 @@
 // passes its page renderer so an input error is shown on the Data page like other uploads'.
 import { Hono, type Context } from 'hono';
 import type { GlossarySectionProps } from '../../../views/glossary.js';
-import { importGlossary, listGlossaries } from '../../services/glossary.js';
+import { importGlossary, listGlossaries } from '../../services/index.js';
 import { scanUpload } from '../../platform/index.js';
 import type { Study } from '../../store/index.js';
-import { InputError } from '../../text/types.js';
+import { InputError } from '../../text/index.js';
 import { studyFor } from '../access.js';
 import type { AppEnv } from '../types.js';
 import { text } from './forms.js';

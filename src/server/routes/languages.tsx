@@ -2,8 +2,8 @@
 // overrides (one by one or in bulk). An override re-runs the vocabulary so runs see it.
 import { Hono, type Context } from 'hono';
 import { LanguagesPage } from '../../../views/pages/languages.js';
-import { rebuildVocabulary } from '../../services/vocabulary.js';
-import { glossaryTermsByLanguage } from '../../services/glossary.js';
+import { rebuildVocabulary } from '../../services/index.js';
+import { glossaryTermsByLanguage } from '../../services/index.js';
 import { adoptWrittenLanguages, languageSummary, listDocuments, overrideLanguages, studyRole, type DocumentFilter } from '../../store/index.js';
 import { frame, studyFor } from '../access.js';
 import { renderPage } from '../render.js';

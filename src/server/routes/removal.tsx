@@ -15,9 +15,9 @@ import {
   removeRun,
   removeStudy,
   type RemovalOutcome,
-} from '../../services/removal.js';
+} from '../../services/index.js';
 import { studyRole, type Study } from '../../store/index.js';
-import { InputError } from '../../text/types.js';
+import { InputError } from '../../text/index.js';
 import { frame, runFor, studyFor } from '../access.js';
 import { renderPage } from '../render.js';
 import type { AppEnv } from '../types.js';

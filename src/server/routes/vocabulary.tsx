@@ -3,9 +3,9 @@
 // posted (POST …/vocabulary/search), so the words stay out of addresses (OWASP ASVS 4.0.3 V8.3.1).
 import { Hono, type Context } from 'hono';
 import { VocabularyPage } from '../../../views/pages/vocabulary.js';
-import { pipelineSettings } from '../../services/text-pipeline.js';
+import { pipelineSettings } from '../../services/index.js';
 import { openStopWords, stemmerName, surveyLexicon } from '../../text/index.js';
-import { rebuildVocabulary } from '../../services/vocabulary.js';
+import { rebuildVocabulary } from '../../services/index.js';
 import { exclusionSummary, getStudyWordLists, setStudyWordList, studyRole, topWords, updateStudy, vocabularySizes } from '../../store/index.js';
 import { frame, studyFor } from '../access.js';
 import { renderPage } from '../render.js';

@@ -10,4 +10,5 @@ export {
 export { suggestColumnTypes, type SuggestedType } from './suggest-column-types.js';
 export { parseNumber, type ParsedNumber } from './parse-number.js';
 export { normalizeLanguageTag, toIso6393, fromIso6393, knownLanguageSubtags } from '../language-tags.js';
+export { listNames } from './input-limits.js';
 export { readGlossaryTable, splitSynonyms, type GlossaryColumn, type GlossaryRow, type GlossaryTable } from './read-glossary.js';
