@@ -93,7 +93,7 @@ function freePort(): Promise<number> {
 }
 
 /** Start `themata serve` on a free loopback port and wait until it says where it listens. */
-async function serveInChild(dataDir: string): Promise<{ url: string; process: ChildProcess }> {
+export async function serveInChild(dataDir: string): Promise<{ url: string; process: ChildProcess }> {
   const port = await freePort();
   const bin = new URL('../bin/themata.mjs', import.meta.url);
   // The load section's 50 clients all browse as the one local user: far beyond the request rate

@@ -12,8 +12,9 @@ const PART_ANSWERS = 500_000;
 
 export async function runFullCase(log: (line: string) => void, answers = 1_000_000): Promise<Record<string, unknown>> {
   const { generateDemo, demoCsv, DEMO_COLUMNS } = await import('../../demo/index.js');
-  const { importFile, createFitRun, runFitJob, estimateFit, describeEstimate, loadRunModel, exportTables } = await import('../../src/services/index.js');
+  const { importFile, createFitRun, runFitJob, estimateFit, describeEstimate, loadRunModel, exportTables, buildBundle, applyRun } = await import('../../src/services/index.js');
   const { machineSize } = await import('../../src/platform/index.js');
+  const { serveInChild, measurePages } = await import('../web.js');
   const { openStore } = await import('../../src/store/index.js');
   const dir = await mkdtemp(join(tmpdir(), 'themata-bench-'));
   const store = openStore(dir);
@@ -83,6 +84,26 @@ export async function runFullCase(log: (line: string) => void, answers = 1_000_0
     const tables = exportTables(store, model, { answerText: true });
     const exportSeconds = (performance.now() - t) / 1000;
     log(`full: export tables (answers by theme, shares by group, words, codebook) ${exportSeconds.toFixed(1)} s for ${tables.answers.rows.length.toLocaleString('en')} answer rows; peak RSS now ${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MB`);
+    // Apply: next wave's 100,000 answers coded with this run (the same generator, another seed).
+    t = performance.now();
+    const wave = new TextEncoder().encode(demoCsv(generateDemo({ answers: 100_000, seed: 2026 }).rows));
+    const applied = await applyRun(buildBundle(store, model), { bytes: wave, fileName: 'next-wave.csv', mapping: DEMO_COLUMNS });
+    const applySeconds = (performance.now() - t) / 1000;
+    log(`full: apply to 100,000 new answers ${applySeconds.toFixed(1)} s (${(applied.file.bytes.length / 1e6).toFixed(0)} MB coded file); peak RSS now ${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MB`);
+    // The results pages as a person opens them: a server started on this data folder (first
+    // visit after a restart), then a few clients for a while (p95).
+    const server = await serveInChild(dir);
+    const base = `/studies/${studyId}/runs/${run.id}`;
+    const paths = { themes: `${base}/themes`, theme: `${base}/themes/0`, contrasts: `${base}/contrasts?by=branch_region`, answers: `${base}/answers?language=en` };
+    let pages: Record<string, unknown> = {};
+    try {
+      pages = await measurePages(server.url, paths, { connections: 4, seconds: 10, log });
+    } finally {
+      await new Promise<void>((resolve) => {
+        server.process.once('exit', () => resolve());
+        server.process.kill('SIGTERM');
+      });
+    }
     return {
       answers,
       documents,
@@ -96,6 +117,8 @@ export async function runFullCase(log: (line: string) => void, answers = 1_000_0
       estimatedSeconds: estimate.seconds.total,
       estimatedPeakMB: estimate.peakBytes / 1e6,
       exportSeconds,
+      applySeconds,
+      pages,
       totalSeconds: total,
       tokensPerSecond: outcome.diagnostics?.tokensPerSecond ?? null,
       peakRssMB,
