@@ -2,7 +2,8 @@
 // "where a study is larger than one machine can fit in the goal, say so before the fit starts"),
 // on the Runs page and by `themata fit`. A cost model in counts — answers, words, themes,
 // sweeps, threads — whose rates were measured on the development machine (2 cores, 24 GiB;
-// DEVELOPERS.md, "Time left") with the demo generator's studies of 20,000 and 200,000 answers.
+// DEVELOPERS.md, "Time left") with the demo generator's studies of 20,000, 200,000 and a million
+// answers (`npm run bench -- --only sampler --full`).
 // It is an estimate for a machine like that one: the live progress of a fit corrects it.
 import { fitInputSize, listRuns, vocabularySizes, type Store } from '../store/index.js';
 import { afterSamplingSeconds } from './fit-time.js';
@@ -10,25 +11,26 @@ import { summarySteps } from './run-summaries.js';
 import { runSettingsOf, type FitRequest } from './run-settings-schema.js';
 
 /**
- * Sampler words per second beyond a sweep's fixed part, fast sampler, K = 50 (measured: 0.358 s
- * a sweep of 1.32 million words on 2 threads, 0.059 s of 0.13 million).
+ * Sampler words per second beyond a sweep's fixed part, fast sampler, K = 50, 2 threads
+ * (measured on an idle machine: 1.145 s a sweep of 7.39 million words at a million answers,
+ * 0.059 s of 0.13 million at 20,000).
  */
-const WORDS_PER_SECOND_TWO_THREADS = 4.0e6;
-/** Words per second of one thread against two, at 200,000 answers, K = 50 (measured: 0.477 s a sweep against 0.358 s). */
+const WORDS_PER_SECOND_TWO_THREADS = 6.7e6;
+/** Words per second of one thread against two, at 200,000 answers, K = 50 (measured while other work ran: 0.477 s a sweep against 0.358 s). */
 const ONE_THREAD_SHARE = 0.73;
-/** A sweep's fixed part: priors, group mixtures, likelihood (measured 0.026 s at K = 50). */
-const SWEEP_FIXED_SECONDS_PER_THEME = 5.3e-4;
-/** Building the corpus from the store, and the warm start, per word (measured). */
-const PREPARING_SECONDS_PER_WORD = 2e-6;
-const STARTING_SECONDS_PER_WORD = 6e-6;
+/** A sweep's fixed part: priors, group mixtures, likelihood (0.040 s at K = 50, from the two sizes above). */
+const SWEEP_FIXED_SECONDS_PER_THEME = 7.9e-4;
+/** Building the corpus from the store, and the warm start, per word (measured at a million answers: 18.5 s and 23.4 s). */
+const PREPARING_SECONDS_PER_WORD = 2.5e-6;
+const STARTING_SECONDS_PER_WORD = 3.5e-6;
 /** The process with its libraries and worker threads loaded (measured RSS, less the parts below). */
 const BASE_BYTES = 450e6;
 /**
  * Memory per word: corpus arrays, assignments, the answers' records, the workers' copies
- * (measured: 1.59 GB at 1.47 million words against 0.65 GB at 0.14 million, less the mixtures).
- * Pessimistic: garbage collection lets larger heaps grow further than they must.
+ * (measured peak RSS: 4.56 GB at a million answers and 7.39 million words, 0.65 GB at 0.14
+ * million words, less the base and the mixtures).
  */
-const BYTES_PER_WORD = 480;
+const BYTES_PER_WORD = 400;
 /** Memory per answer × theme: the mixtures' running sum and mean (float64) and a float32 copy. */
 const BYTES_PER_ANSWER_THEME = 20;
 /** Kept mixture samples are capped at 50 million values by the model (fit-settings.ts in src/model), the contrasts' copies at 10 million (contrasts.ts). */
