@@ -2,7 +2,7 @@
 // (the command line in process, the workbench in a worker thread) show the same figures: group
 // contrasts for every covariate (and language, question) and the checks. Computed once after the
 // sweeps, off the request path, instead of while someone waits for a page.
-import type { ResultValue, StoredResult, Store } from '../store/index.js';
+import { linkSummary, loadJsonResult, type LinkSummary, type ResultValue, type Run, type StoredResult, type Store } from '../store/index.js';
 import { runChecks } from './checks.js';
 import { contrastCovariates, contrastData, contrastsFromData, type ContrastData } from './contrasts.js';
 import type { RunModel } from './run-model.js';
@@ -48,10 +48,23 @@ export function computeRunSummaries(store: Store, model: RunModel, hooks: Summar
   }
   if (hooks.shouldStop?.()) return { entries, stopped: true };
   hooks.onStep?.({ label: 'checking the model', index: names.length, count });
+  // How the languages were tied when the run was fitted: what its pages warn about.
+  entries[TIES_KEY] = { json: linkSummary(store, model.run.studyId) };
   try {
     entries.checks = { json: runChecks(store, model) };
   } catch {
     // The Checks page computes them when opened.
   }
   return { entries, stopped: false };
+}
+
+const TIES_KEY = 'ties';
+
+/**
+ * How the study's languages were tied together (link groups, glossary rows) when the run was
+ * fitted — stored with its summaries, so its pages need no pass over every answer — or, for a
+ * run fitted before that was stored, as the study is now.
+ */
+export function runTies(store: Store, run: Run): LinkSummary {
+  return loadJsonResult<LinkSummary>(store, run.id, TIES_KEY) ?? linkSummary(store, run.studyId);
 }

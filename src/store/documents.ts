@@ -209,6 +209,25 @@ export function listDocuments(
   return { total, rows: rows.map(toDocument) };
 }
 
+/**
+ * Id, language (the vocabulary's, else the decided one) and weight of every document the filter
+ * keeps, in id order: what a results page needs of every answer, read without the texts and
+ * metadata (a first visit at a million answers must not wait for them).
+ */
+export function documentWeights(store: Store, studyId: number, filter: DocumentFilter = {}): { ids: Int32Array; languages: string[]; weights: Float64Array } {
+  const { sql, params } = whereClause(studyId, filter);
+  const rows = store.db.prepare(`SELECT id, COALESCE(vocabulary_language, language, ''), weight FROM documents WHERE ${sql} ORDER BY id`).raw(true).all(...params) as [number, string, number][];
+  const ids = new Int32Array(rows.length);
+  const languages = new Array<string>(rows.length);
+  const weights = new Float64Array(rows.length);
+  rows.forEach((r, i) => {
+    ids[i] = r[0];
+    languages[i] = r[1];
+    weights[i] = r[2];
+  });
+  return { ids, languages, weights };
+}
+
 /** Every document of a study (or of one import), in id order, streamed. */
 export function* iterateDocuments(store: Store, studyId: number, filter: DocumentFilter = {}): Generator<DocumentRecord> {
   const { sql, params } = whereClause(studyId, filter);

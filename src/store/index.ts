@@ -15,6 +15,7 @@ export {
   iterateDocuments,
   getDocument,
   listDocumentTokens,
+  documentWeights,
   fitInputSize,
   listDocumentTexts,
   overrideLanguages,

@@ -3,8 +3,8 @@
 // names, rendered to one HTML text with the workbench's stylesheet and the report's own rules.
 import { readFileSync } from 'node:fs';
 import { ReportDocument, type ReportProps } from '../../../views/pages/report.js';
-import type { RunChecks } from '../../services/index.js';
-import { linkSummary, loadJsonResult, type Store, type Study } from '../../store/index.js';
+import { runTies, type RunChecks } from '../../services/index.js';
+import { loadJsonResult, type Store, type Study } from '../../store/index.js';
 import type { RunData } from './run-data.js';
 import { languageOrder, themeNames } from './theme-names.js';
 
@@ -45,7 +45,7 @@ export function reportProps(store: Store, study: Study, data: RunData, createdAt
   const checks = loadJsonResult<RunChecks>(store, model.run.id, 'checks');
   const coherence = new Map<number, number[]>();
   for (const t of checks?.coherence.themes ?? []) if (Number.isFinite(t.npmi)) (coherence.get(t.theme) ?? coherence.set(t.theme, []).get(t.theme)!).push(t.npmi);
-  const links = linkSummary(store, study.id);
+  const links = runTies(store, model.run);
   return {
     study: study.name,
     run: model.run.name,

@@ -1,11 +1,11 @@
 // A finished run's results held in memory for the results pages: the fitted model (services'
-// loadRunModel), each fitted answer's text and metadata, overall shares, language balance and
-// top words. Results of a finished run do not change (labels are patched in place), so a small
+// loadRunModel), overall shares, language balance, top words, and — read when first needed —
+// each fitted answer's text and metadata. Results of a finished run do not change (labels are patched in place), so a small
 // cache keeps page latency low on large studies; contrasts are cached per covariate.
 import { contrastCovariates, loadRunModel, overallShares, runContrasts, themeWords, type RunModel, type ThemeWord } from '../../services/index.js';
 import type { ContrastResult } from '../../stats/index.js';
 import { contrastKey } from '../../jobs/index.js';
-import { getRun, getThemeLabels, iterateDocuments, loadJsonResult, type Store } from '../../store/index.js';
+import { documentWeights, getRun, getThemeLabels, iterateDocuments, loadJsonResult, type Store } from '../../store/index.js';
 
 export interface FittedAnswer {
   readonly id: number;
@@ -103,23 +103,32 @@ export class RunDataCache {
     const D = model.documentIds.length;
     const index = new Map<number, number>();
     model.documentIds.forEach((id, d) => index.set(id, d));
-    const answers = new Array<FittedAnswer>(D);
     const docLanguage = new Int32Array(D).fill(-1);
     const weights = new Float64Array(D).fill(0);
     const isAnswer = new Uint8Array(D);
     const langIndex = new Map(model.languages.map((l, i) => [l, i]));
-    for (const doc of iterateDocuments(store, model.run.studyId)) {
-      const d = index.get(doc.id);
+    // Weights and languages only: the texts and metadata are read when a page first needs them
+    // (a theme's answers, the Answers page), so the Themes page of a large run opens quickly.
+    const fitted = documentWeights(store, model.run.studyId);
+    for (let i = 0; i < fitted.ids.length; i++) {
+      const d = index.get(fitted.ids[i]);
       if (d === undefined) continue;
-      const language = doc.vocabularyLanguage ?? doc.language ?? '';
-      answers[d] = { id: doc.id, rowId: doc.rowId, question: doc.question, text: doc.text, language, covariates: doc.covariates, weight: doc.weight };
-      docLanguage[d] = langIndex.get(language) ?? -1;
-      weights[d] = Number.isFinite(doc.weight) && doc.weight >= 0 ? doc.weight : 0;
+      docLanguage[d] = langIndex.get(fitted.languages[i]) ?? -1;
+      const w = fitted.weights[i];
+      weights[d] = Number.isFinite(w) && w >= 0 ? w : 0;
       isAnswer[d] = 1;
     }
-    for (let d = 0; d < D; d++) {
-      answers[d] ??= { id: model.documentIds[d], rowId: '', question: '', text: '', language: '', covariates: {}, weight: 1 };
-    }
+    let answers: FittedAnswer[] | undefined;
+    const readAnswers = (): FittedAnswer[] => {
+      const out = new Array<FittedAnswer>(D);
+      for (const doc of iterateDocuments(store, model.run.studyId)) {
+        const d = index.get(doc.id);
+        if (d === undefined) continue;
+        out[d] = { id: doc.id, rowId: doc.rowId, question: doc.question, text: doc.text, language: doc.vocabularyLanguage ?? doc.language ?? '', covariates: doc.covariates, weight: doc.weight };
+      }
+      for (let d = 0; d < D; d++) out[d] ??= { id: model.documentIds[d], rowId: '', question: '', text: '', language: '', covariates: {}, weight: 1 };
+      return out;
+    };
     const weightMap = new Map<number, number>();
     model.documentIds.forEach((id, d) => weightMap.set(id, weights[d]));
     const shares = overallShares(model, weightMap);
@@ -144,18 +153,22 @@ export class RunDataCache {
     }
     const words = new Map<string, ThemeWord[]>();
     const contrasts = new Map<string, ContrastResult>();
-    const covariateNames = contrastCovariates(store, model.run.studyId);
+    let covariateNames: string[] | undefined;
     let levels: { name: string; values: string[] }[] | undefined;
     const data: RunData = {
       model,
-      answers,
+      get answers() {
+        return (answers ??= readAnswers());
+      },
       isAnswer,
       docLanguage,
       weights,
       shares,
       balance,
       dominant,
-      covariateNames,
+      get covariateNames() {
+        return (covariateNames ??= contrastCovariates(store, model.run.studyId));
+      },
       pages: new Map(),
       topWords(k, language, n) {
         const key = `${k}|${language}`;
@@ -175,7 +188,7 @@ export class RunDataCache {
         if (levels) return levels;
         const found = new Map<string, Set<string>>();
         const numeric = new Set<string>();
-        for (const a of answers) {
+        for (const a of data.answers) {
           for (const [name, v] of Object.entries(a.covariates)) {
             if (v === null || v === '') continue;
             if (typeof v === 'number') numeric.add(name);

@@ -2,8 +2,8 @@
 // when the stored checks are of an older version, so older runs gain the newer figures).
 import { Hono } from 'hono';
 import { ChecksPage } from '../../../../views/pages/checks.js';
-import { CHECKS_VERSION, runChecks } from '../../../services/index.js';
-import { linkSummary, listRuns, saveResults } from '../../../store/index.js';
+import { CHECKS_VERSION, runChecks, runTies } from '../../../services/index.js';
+import { listRuns, saveResults } from '../../../store/index.js';
 import { frame } from '../../access.js';
 import { renderPage } from '../../render.js';
 import { checksProps } from '../../results/checks-view.js';
@@ -28,7 +28,7 @@ export function checkRoutes(ctx: ResultContext): Hono<AppEnv> {
     const runs = listRuns(store, study.id).filter((r) => r.status === 'finished');
     const summaries = runSummaries(store, runs);
     const props = checksProps(data, checks, themeNames(store, study, data), runs.map((r) => ({ run: r, summary: summaries.get(r.id) })));
-    return renderPage(c, <ChecksPage frame={frame(c, `Checks · ${run.name}`, { study, run, active: 'checks' })} links={linkSummary(store, study.id)} {...props} />);
+    return renderPage(c, <ChecksPage frame={frame(c, `Checks · ${run.name}`, { study, run, active: 'checks' })} links={runTies(store, run)} {...props} />);
   });
 
   return app;

@@ -3,7 +3,8 @@
 import { Hono, type Context } from 'hono';
 import { HTTPException } from 'hono/http-exception';
 import { LabelCell, ThemePage, ThemesPage } from '../../../../views/pages/themes.js';
-import { getThemeLabels, linkSummary, setThemeLabel, setThemeLabels } from '../../../store/index.js';
+import { getThemeLabels, setThemeLabel, setThemeLabels } from '../../../store/index.js';
+import { runTies } from '../../../services/index.js';
 import { frame } from '../../access.js';
 import { renderFragment, renderPage } from '../../render.js';
 import { markWords } from '../../results/mark.js';
@@ -48,7 +49,7 @@ export function themeRoutes(ctx: ResultContext): Hono<AppEnv> {
         canEdit={canEdit(c, study)}
         stabilityNote={stabilityNote}
         sort={c.req.query('sort') ?? ''}
-        links={linkSummary(store, study.id)}
+        links={runTies(store, run)}
       />,
     );
   }));
