@@ -20,7 +20,7 @@ describe('the ties of a fitted run', () => {
     expect(atFit.answerGroupsAcrossLanguages).toBeGreaterThan(0);
     expect(S.loadJsonResult(ctx.store, run.id, 'ties')).toEqual(atFit);
     // A later import with two more translated pairs: the study has more ties, the run does not.
-    const imp = S.insertImport(ctx.store, { studyId, fileName: 'more.csv', format: 'csv', bytes: new Uint8Array([1]), encoding: 'UTF-8', mapping: { text: ['answer'] } });
+    const imp = S.insertImport(ctx.store, { studyId, fileName: 'more.csv', format: 'csv', bytes: new Uint8Array([1]), encoding: 'UTF-8', mapping: { text: ['answer'], covariates: [] } });
     const docs = ['en', 'fr', 'en', 'fr'].map((language, i) => ({ rowId: `m${i}`, question: 'answer', text: `more ${i}`, language, languageSource: 'declared' as const, confidence: 1, linkKey: `M${i >> 1}`, covariates: {}, weight: 1 }));
     const ids = S.insertDocuments(ctx.store, studyId, imp, docs);
     S.setDocumentTokens(ctx.store, ids.map((id, i) => ({ id, vocabularyLanguage: docs[i].language, tokens: Int32Array.of(1, 2), excluded: null })));
