@@ -136,6 +136,9 @@ export interface PreparedCorpus {
    */
   fitCorpus: ReturnType<typeof buildCorpus>['corpus'];
   fitFeatures: GroupFeatures | null;
+  /** Per corpus document: its survey weight, and 1 for an answer (0 for a glossary's term list). */
+  weights: Float64Array;
+  isAnswer: Uint8Array;
   /** Shared spellings linked, and the one-word documents made of them. */
   sharedSpellings: number;
   spellingDocuments: number;
@@ -183,6 +186,8 @@ export function prepareCorpus(store: Store, run: Run): PreparedCorpus {
     features,
     fitCorpus: fit.corpus,
     fitFeatures,
+    weights: Float64Array.from(built.docOrder, (i) => train[i].weight),
+    isAnswer: Uint8Array.from(built.docOrder, (i) => (train[i].glossary ? 0 : 1)),
     sharedSpellings: shared.length,
     spellingDocuments: extra.length,
   };

@@ -60,6 +60,7 @@ export function fittedRunModel(run: Run, p: PreparedCorpus, out: FitOutput): Run
     vocabularies: p.vocabularies,
     phi: out.phi,
     documentIds: p.documentIds,
+    fitted: { language: p.corpus.docLanguage, weight: p.weights, isAnswer: p.isAnswer },
     docGroup: p.corpus.docGroup,
     heldOutIds: p.heldOutIds,
     thetaGroups: out.thetaGroups,
@@ -87,6 +88,10 @@ export function storeFittedRun(store: Store, run: Run, p: PreparedCorpus, out: F
     documentIds: p.documentIds,
     heldOutIds: p.heldOutIds,
     docGroup: p.corpus.docGroup,
+    // What the results pages need of every answer, stored so they need not read every answer.
+    docLanguage: p.corpus.docLanguage,
+    docWeight: p.weights,
+    docIsAnswer: p.isAnswer,
     thetaGroups: { value: out.thetaGroups, shape: [G, K] },
     thetaSamples: { value: samples, shape: [out.thetaSamples.length, G, K] },
     alpha: { value: out.alpha, shape: [out.alpha.length / K, K] },

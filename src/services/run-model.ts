@@ -15,6 +15,11 @@ export interface RunModel {
   readonly phi: Float64Array[];
   /** Corpus document index → document id; and → link group. */
   readonly documentIds: Int32Array;
+  /**
+   * Per corpus document, as fitted: language index, survey weight, 1 for an answer; null for a
+   * run stored before these were kept (then read from the study's answers).
+   */
+  readonly fitted: { readonly language: Uint8Array; readonly weight: Float64Array; readonly isAnswer: Uint8Array } | null;
   readonly docGroup: Int32Array;
   readonly heldOutIds: Int32Array;
   /** θ̂ per group, G×K. */
@@ -55,6 +60,7 @@ export function loadRunModel(store: Store, runId: number): RunModel | undefined 
     vocabularies: layout.languages.map((l) => (r[`vocabulary:${l}`].value as { json: { stems: string[]; surfaces: string[] } }).json),
     phi: layout.languages.map((l) => r[`phi:${l}`].value as Float64Array),
     documentIds: r.documentIds.value as Int32Array,
+    fitted: r.docLanguage && r.docWeight && r.docIsAnswer ? { language: r.docLanguage.value as Uint8Array, weight: r.docWeight.value as Float64Array, isAnswer: r.docIsAnswer.value as Uint8Array } : null,
     docGroup: r.docGroup.value as Int32Array,
     heldOutIds: (r.heldOutIds?.value as Int32Array | undefined) ?? new Int32Array(0),
     thetaGroups: r.thetaGroups.value as Float64Array,

@@ -228,6 +228,12 @@ export function documentWeights(store: Store, studyId: number, filter: DocumentF
   return { ids, languages, weights };
 }
 
+/** Ids of the documents the filter keeps (answers by default), in id order. */
+export function documentIdsOf(store: Store, studyId: number, filter: DocumentFilter = {}): Int32Array {
+  const { sql, params } = whereClause(studyId, filter);
+  return Int32Array.from(store.db.prepare(`SELECT id FROM documents WHERE ${sql} ORDER BY id`).pluck().all(...params) as number[]);
+}
+
 /** Every document of a study (or of one import), in id order, streamed. */
 export function* iterateDocuments(store: Store, studyId: number, filter: DocumentFilter = {}): Generator<DocumentRecord> {
   const { sql, params } = whereClause(studyId, filter);

@@ -16,6 +16,7 @@ export {
   getDocument,
   listDocumentTokens,
   documentWeights,
+  documentIdsOf,
   fitInputSize,
   listDocumentTexts,
   overrideLanguages,

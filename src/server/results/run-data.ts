@@ -5,7 +5,7 @@
 import { contrastCovariates, loadRunModel, overallShares, runContrasts, themeWords, type RunModel, type ThemeWord } from '../../services/index.js';
 import type { ContrastResult } from '../../stats/index.js';
 import { contrastKey } from '../../jobs/index.js';
-import { documentWeights, getRun, getThemeLabels, iterateDocuments, loadJsonResult, type Store } from '../../store/index.js';
+import { documentIdsOf, documentWeights, getRun, getThemeLabels, iterateDocuments, loadJsonResult, type Store } from '../../store/index.js';
 
 export interface FittedAnswer {
   readonly id: number;
@@ -107,16 +107,29 @@ export class RunDataCache {
     const weights = new Float64Array(D).fill(0);
     const isAnswer = new Uint8Array(D);
     const langIndex = new Map(model.languages.map((l, i) => [l, i]));
-    // Weights and languages only: the texts and metadata are read when a page first needs them
-    // (a theme's answers, the Answers page), so the Themes page of a large run opens quickly.
-    const fitted = documentWeights(store, model.run.studyId);
-    for (let i = 0; i < fitted.ids.length; i++) {
-      const d = index.get(fitted.ids[i]);
-      if (d === undefined) continue;
-      docLanguage[d] = langIndex.get(fitted.languages[i]) ?? -1;
-      const w = fitted.weights[i];
-      weights[d] = Number.isFinite(w) && w >= 0 ? w : 0;
-      isAnswer[d] = 1;
+    // Weights and languages only — stored with the run, or for an older run read from its
+    // answers: the texts and metadata are read when a page first needs them (a theme's answers,
+    // the Answers page), so the Themes page of a large run opens quickly.
+    if (model.fitted) {
+      // Answers deleted since the fit (and glossary term lists) count as no answer, as below.
+      const kept = new Set(documentIdsOf(store, model.run.studyId));
+      for (let d = 0; d < D; d++) {
+        if (!model.fitted.isAnswer[d] || !kept.has(model.documentIds[d])) continue;
+        docLanguage[d] = model.fitted.language[d];
+        const w = model.fitted.weight[d];
+        weights[d] = Number.isFinite(w) && w >= 0 ? w : 0;
+        isAnswer[d] = 1;
+      }
+    } else {
+      const fitted = documentWeights(store, model.run.studyId);
+      for (let i = 0; i < fitted.ids.length; i++) {
+        const d = index.get(fitted.ids[i]);
+        if (d === undefined) continue;
+        docLanguage[d] = langIndex.get(fitted.languages[i]) ?? -1;
+        const w = fitted.weights[i];
+        weights[d] = Number.isFinite(w) && w >= 0 ? w : 0;
+        isAnswer[d] = 1;
+      }
     }
     let answers: FittedAnswer[] | undefined;
     const readAnswers = (): FittedAnswer[] => {
