@@ -5,7 +5,7 @@ export { rebuildVocabulary, type VocabularyRebuild } from './vocabulary.js';
 export { importGlossary, listGlossaries, glossaryTermsByLanguage, glossaryLinkKey, type GlossaryOptions, type GlossarySummary, type GlossaryListing } from './glossary.js';
 export { fitSettings, validateFit, createFitRun, requireStudy, answersToFit, type FitRequest, type FitPlace } from './fit-run.js';
 export { runFitJob, prepareCorpus, FIT_PHASES, type FitPhase, type FitJobOptions, type FitJobOutcome, type PreparedCorpus, type FitDiagnostics } from './fit-job.js';
-export { CONTRAST_DRAWS, contrastKey, computeRunSummaries, summarySteps, runTies, type SummaryHooks } from './run-summaries.js';
+export { CONTRAST_DRAWS, contrastKey, computeRunSummaries, summarySteps, runTies, runContrastCovariates, type SummaryHooks } from './run-summaries.js';
 export {
   NUMBER_SETTINGS,
   COVARIATES_SETTING,

@@ -48,8 +48,10 @@ export function computeRunSummaries(store: Store, model: RunModel, hooks: Summar
   }
   if (hooks.shouldStop?.()) return { entries, stopped: true };
   hooks.onStep?.({ label: 'checking the model', index: names.length, count });
-  // How the languages were tied when the run was fitted: what its pages warn about.
+  // How the languages were tied when the run was fitted: what its pages warn about; and the
+  // covariates its answers can be compared by (both need a pass over every answer otherwise).
   entries[TIES_KEY] = { json: linkSummary(store, model.run.studyId) };
+  entries[COVARIATES_KEY] = { json: names };
   try {
     entries.checks = { json: runChecks(store, model) };
   } catch {
@@ -59,6 +61,12 @@ export function computeRunSummaries(store: Store, model: RunModel, hooks: Summar
 }
 
 const TIES_KEY = 'ties';
+const COVARIATES_KEY = 'contrast-covariates';
+
+/** The names a run's contrasts can be asked for, as stored with its summaries or as the study has them now. */
+export function runContrastCovariates(store: Store, run: Run): string[] {
+  return loadJsonResult<string[]>(store, run.id, COVARIATES_KEY) ?? contrastCovariates(store, run.studyId);
+}
 
 /**
  * How the study's languages were tied together (link groups, glossary rows) when the run was

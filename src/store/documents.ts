@@ -234,6 +234,12 @@ export function documentIdsOf(store: Store, studyId: number, filter: DocumentFil
   return Int32Array.from(store.db.prepare(`SELECT id FROM documents WHERE ${sql} ORDER BY id`).pluck().all(...params) as number[]);
 }
 
+/** How many different questions (text columns) the documents the filter keeps answer. */
+export function questionCountOf(store: Store, studyId: number, filter: DocumentFilter = {}): number {
+  const { sql, params } = whereClause(studyId, filter);
+  return store.db.prepare(`SELECT COUNT(DISTINCT question) FROM documents WHERE ${sql}`).pluck().get(...params) as number;
+}
+
 /** Every document of a study (or of one import), in id order, streamed. */
 export function* iterateDocuments(store: Store, studyId: number, filter: DocumentFilter = {}): Generator<DocumentRecord> {
   const { sql, params } = whereClause(studyId, filter);

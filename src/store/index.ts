@@ -17,6 +17,7 @@ export {
   listDocumentTokens,
   documentWeights,
   documentIdsOf,
+  questionCountOf,
   fitInputSize,
   listDocumentTexts,
   overrideLanguages,

@@ -21,7 +21,7 @@ export function reportProps(store: Store, study: Study, data: RunData, createdAt
   const names = themeNames(store, study, data);
   const languages = languageOrder(study, data);
   const groups = data.covariateNames
-    .filter((n) => n !== 'question' || new Set(data.answers.filter((_, d) => data.isAnswer[d]).map((a) => a.question)).size > 1)
+    .filter((n) => n !== 'question' || data.questions() > 1)
     .map((covariate) => {
       const res = data.contrast(covariate);
       return {

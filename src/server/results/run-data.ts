@@ -2,10 +2,10 @@
 // loadRunModel), overall shares, language balance, top words, and — read when first needed —
 // each fitted answer's text and metadata. Results of a finished run do not change (labels are patched in place), so a small
 // cache keeps page latency low on large studies; contrasts are cached per covariate.
-import { contrastCovariates, loadRunModel, overallShares, runContrasts, themeWords, type RunModel, type ThemeWord } from '../../services/index.js';
+import { runContrastCovariates, loadRunModel, overallShares, runContrasts, themeWords, type RunModel, type ThemeWord } from '../../services/index.js';
 import type { ContrastResult } from '../../stats/index.js';
 import { contrastKey } from '../../jobs/index.js';
-import { documentIdsOf, documentWeights, getRun, getThemeLabels, iterateDocuments, loadJsonResult, type Store } from '../../store/index.js';
+import { documentIdsOf, documentWeights, getDocument, getRun, questionCountOf, getThemeLabels, iterateDocuments, loadJsonResult, type Store } from '../../store/index.js';
 
 export interface FittedAnswer {
   readonly id: number;
@@ -32,6 +32,10 @@ export interface RunData {
   /** Dominant theme per corpus document. */
   readonly dominant: Int32Array;
   readonly covariateNames: string[];
+  /** One fitted answer (corpus document d) with its text, without reading every answer. */
+  answer(d: number): FittedAnswer;
+  /** How many questions (text columns) the fitted answers answer. */
+  questions(): number;
   topWords(k: number, language: string, n: number): ThemeWord[];
   /** Group contrasts: stored by the fit worker, else computed now (and kept). */
   contrast(by: string): ContrastResult;
@@ -44,6 +48,8 @@ export interface RunData {
 /** Draws for contrasts computed while a page waits (runs fitted outside the workbench). */
 const ON_DEMAND_DRAWS = 200;
 const MAX_PAGES = 500; // common practice: bounded memory for cached pages per run
+/** Answers read one at a time (a theme's examples) kept per run before the cache is emptied. */
+const MAX_SINGLE_ANSWERS = 5000;
 
 const MAX_CACHED = 4; // common practice: a few runs open at once on a lab server
 
@@ -167,6 +173,8 @@ export class RunDataCache {
     const words = new Map<string, ThemeWord[]>();
     const contrasts = new Map<string, ContrastResult>();
     let covariateNames: string[] | undefined;
+    let questionCount: number | undefined;
+    const single = new Map<number, FittedAnswer>();
     let levels: { name: string; values: string[] }[] | undefined;
     const data: RunData = {
       model,
@@ -180,7 +188,23 @@ export class RunDataCache {
       balance,
       dominant,
       get covariateNames() {
-        return (covariateNames ??= contrastCovariates(store, model.run.studyId));
+        return (covariateNames ??= runContrastCovariates(store, model.run));
+      },
+      answer(d) {
+        if (answers) return answers[d];
+        let a = single.get(d);
+        if (!a) {
+          const doc = getDocument(store, model.documentIds[d]);
+          a = doc
+            ? { id: doc.id, rowId: doc.rowId, question: doc.question, text: doc.text, language: doc.vocabularyLanguage ?? doc.language ?? '', covariates: doc.covariates, weight: doc.weight }
+            : { id: model.documentIds[d], rowId: '', question: '', text: '', language: '', covariates: {}, weight: 1 };
+          if (single.size >= MAX_SINGLE_ANSWERS) single.clear();
+          single.set(d, a);
+        }
+        return a;
+      },
+      questions() {
+        return (questionCount ??= questionCountOf(store, model.run.studyId));
       },
       pages: new Map(),
       topWords(k, language, n) {

@@ -97,8 +97,8 @@ export function themeRoutes(ctx: ResultContext): Hono<AppEnv> {
       const l = model.languages.indexOf(language);
       const best: { d: number; share: number }[] = [];
       const seenGroups = new Set<number>();
-      for (let d = 0; d < data.answers.length; d++) {
-        if (data.docLanguage[d] !== l) continue;
+      for (let d = 0; d < model.documentIds.length; d++) {
+        if (data.docLanguage[d] !== l || !data.isAnswer[d]) continue;
         const share = model.thetaGroups[model.docGroup[d] * K + k];
         if (best.length < EXAMPLES * 3 || share > best[best.length - 1].share) {
           best.push({ d, share });
@@ -110,11 +110,14 @@ export function themeRoutes(ctx: ResultContext): Hono<AppEnv> {
       const themeWords = data.topWords(k, language, 30);
       return {
         language,
-        answers: picked.map((b) => ({ rowId: data.answers[b.d].rowId, share: b.share, text: { parts: markWords(data.answers[b.d].text, language, themeWords) } })),
+        answers: picked.map((b) => {
+          const a = data.answer(b.d);
+          return { rowId: a.rowId, share: b.share, text: { parts: markWords(a.text, language, themeWords) } };
+        }),
       };
     });
     const groups = data.covariateNames
-      .filter((n) => n !== 'question' || new Set(data.answers.filter((_, d) => data.isAnswer[d]).map((a) => a.question)).size > 1)
+      .filter((n) => n !== 'question' || data.questions() > 1)
       .map((covariate) => {
         const res = data.contrast(covariate);
         return { covariate, rows: res.shares.filter((r) => r.theme === k).map((r) => ({ level: r.level, share: r.share, low: r.low, high: r.high, n: r.n, effectiveN: r.effectiveN })) };
