@@ -1,6 +1,6 @@
 // Suggested theme labels from each theme's most distinctive words.
 //
-// Method: words are ranked by relevance (Sievert & Shirley, "LDAvis: A method for visualizing
+// Method: words are ranked by relevance (Sievert & Shirley, "A method for visualizing
 // and interpreting topics", ACL Workshop on Interactive Language Learning, Visualization, and
 // Interfaces, 2014, eq. 1):
 //   r(w, k | λ) = λ · log φ_kw + (1 − λ) · log(φ_kw / p_w),
