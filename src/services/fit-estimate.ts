@@ -103,11 +103,14 @@ export function estimateFit(store: Store, studyId: number, request: FitRequest, 
 
 /** "about 12 min", "about 40 s", "about 2 h 5 min". */
 export function formatDuration(seconds: number): string {
-  if (!Number.isFinite(seconds)) return 'unknown';
-  if (seconds < 60) return `about ${Math.max(1, Math.round(seconds))} s`;
+  return Number.isFinite(seconds) ? `about ${roundedDuration(seconds)}` : 'unknown';
+}
+
+/** "12 min", "40 s", "2 h 5 min" (at least 1 s). */
+function roundedDuration(seconds: number): string {
+  if (seconds < 60) return `${Math.max(1, Math.round(seconds))} s`;
   const minutes = Math.round(seconds / 60);
-  if (minutes < 60) return `about ${minutes} min`;
-  return `about ${Math.floor(minutes / 60)} h ${minutes % 60} min`;
+  return minutes < 60 ? `${minutes} min` : `${Math.floor(minutes / 60)} h ${minutes % 60} min`;
 }
 
 function formatMemory(bytes: number): string {
@@ -119,7 +122,7 @@ export function describeEstimate(e: FitEstimate): string {
   const s = e.seconds;
   return (
     `${e.answers.toLocaleString('en')} answers, ${e.words.toLocaleString('en')} words: ${formatDuration(s.total)} in all ` +
-    `(preparing and starting ${formatDuration(s.preparing + s.starting).replace('about ', '')}, sweeps ${formatDuration(s.sampling).replace('about ', '')}, ` +
-    `summaries and storing ${formatDuration(s.after).replace('about ', '')}), about ${formatMemory(e.peakBytes)} of memory at the peak.`
+    `(preparing and starting ${roundedDuration(s.preparing + s.starting)}, sweeps ${roundedDuration(s.sampling)}, ` +
+    `summaries and storing ${roundedDuration(s.after)}), about ${formatMemory(e.peakBytes)} of memory at the peak.`
   );
 }
