@@ -1,11 +1,12 @@
 // A finished run's results held in memory for the results pages: the fitted model (services'
 // loadRunModel), overall shares, language balance, top words, and — read when first needed —
-// each fitted answer's text and metadata. Results of a finished run do not change (labels are patched in place), so a small
-// cache keeps page latency low on large studies; contrasts are cached per covariate.
+// each fitted answer's text and metadata. Results of a finished run do not change (labels are
+// patched in place), so a small cache keeps page latency low on large studies; contrasts are
+// cached per covariate.
 import { runContrastCovariates, loadRunModel, overallShares, runContrasts, themeWords, type RunModel, type ThemeWord } from '../../services/index.js';
 import type { ContrastResult } from '../../stats/index.js';
 import { contrastKey } from '../../jobs/index.js';
-import { documentIdsOf, documentWeights, getDocument, getRun, questionCountOf, getThemeLabels, iterateDocuments, loadJsonResult, type Store } from '../../store/index.js';
+import { documentIdsOf, documentWeights, getDocument, getRun, questionCountOf, getThemeLabels, iterateDocuments, loadJsonResult, type DocumentRecord, type Store } from '../../store/index.js';
 
 export interface FittedAnswer {
   readonly id: number;
@@ -43,6 +44,16 @@ export interface RunData {
   levels(): { name: string; values: string[] }[];
   /** Rendered pages, keyed by the caller; emptied when labels change. */
   readonly pages: Map<string, string>;
+}
+
+/** A fitted answer as the pages show it, in the language of the vocabulary it was fitted with. */
+function fittedAnswer(doc: DocumentRecord): FittedAnswer {
+  return { id: doc.id, rowId: doc.rowId, question: doc.question, text: doc.text, language: doc.vocabularyLanguage ?? doc.language ?? '', covariates: doc.covariates, weight: doc.weight };
+}
+
+/** An answer deleted since the fit: no text, no metadata. */
+function missingAnswer(id: number): FittedAnswer {
+  return { id, rowId: '', question: '', text: '', language: '', covariates: {}, weight: 1 };
 }
 
 /** Draws for contrasts computed while a page waits (runs fitted outside the workbench). */
@@ -143,9 +154,9 @@ export class RunDataCache {
       for (const doc of iterateDocuments(store, model.run.studyId)) {
         const d = index.get(doc.id);
         if (d === undefined) continue;
-        out[d] = { id: doc.id, rowId: doc.rowId, question: doc.question, text: doc.text, language: doc.vocabularyLanguage ?? doc.language ?? '', covariates: doc.covariates, weight: doc.weight };
+        out[d] = fittedAnswer(doc);
       }
-      for (let d = 0; d < D; d++) out[d] ??= { id: model.documentIds[d], rowId: '', question: '', text: '', language: '', covariates: {}, weight: 1 };
+      for (let d = 0; d < D; d++) out[d] ??= missingAnswer(model.documentIds[d]);
       return out;
     };
     const weightMap = new Map<number, number>();
@@ -195,9 +206,7 @@ export class RunDataCache {
         let a = single.get(d);
         if (!a) {
           const doc = getDocument(store, model.documentIds[d]);
-          a = doc
-            ? { id: doc.id, rowId: doc.rowId, question: doc.question, text: doc.text, language: doc.vocabularyLanguage ?? doc.language ?? '', covariates: doc.covariates, weight: doc.weight }
-            : { id: model.documentIds[d], rowId: '', question: '', text: '', language: '', covariates: {}, weight: 1 };
+          a = doc ? fittedAnswer(doc) : missingAnswer(model.documentIds[d]);
           if (single.size >= MAX_SINGLE_ANSWERS) single.clear();
           single.set(d, a);
         }
