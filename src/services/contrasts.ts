@@ -42,7 +42,7 @@ export interface ContrastData {
 export function contrastData(store: Store, model: RunModel, covariates?: readonly string[]): ContrastData {
   const known = contrastCovariates(store, model.run.studyId);
   const names = covariates ?? known;
-  for (const by of names) if (!known.includes(by)) throw new InputError(`There is no covariate "${by}" in this study. Choose one of: ${known.join(', ')}.`);
+  for (const by of names) if (!known.includes(by)) throw unknownCovariate(by, known);
   const { K } = model;
   const D = model.documentIds.length;
   const index = new Map<number, number>();
@@ -69,6 +69,10 @@ export function contrastData(store: Store, model: RunModel, covariates?: readonl
   return { known, weights, values, glossaryDocs, samples };
 }
 
+function unknownCovariate(by: string, known: readonly string[]): InputError {
+  return new InputError(`There is no covariate "${by}" in this study. Choose one of: ${known.join(', ')}.`);
+}
+
 export function runContrasts(store: Store, model: RunModel, request: ContrastRequest): ContrastResult {
   return contrastsFromData(model, contrastData(store, model, [request.by]), request);
 }
@@ -76,7 +80,7 @@ export function runContrasts(store: Store, model: RunModel, request: ContrastReq
 /** The contrasts by one covariate, from data read by contrastData (which must include it). */
 export function contrastsFromData(model: RunModel, data: ContrastData, request: ContrastRequest): ContrastResult {
   const source = data.values.get(request.by);
-  if (!source) throw new InputError(`There is no covariate "${request.by}" in this study. Choose one of: ${data.known.join(', ')}.`);
+  if (!source) throw unknownCovariate(request.by, data.known);
   const { K } = model;
   const D = model.documentIds.length;
   const { weights, glossaryDocs, samples } = data;
